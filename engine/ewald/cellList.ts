@@ -1,0 +1,103 @@
+/**
+ * Cell list for the real-space sum in a periodic rectangular box. Particles are sorted by cell into a
+ * flat [x, y, z, m] array; a stencil lists every cell offset (in an unwrapped grid) whose nearest point
+ * lies within the cutoff, so cutoffs longer than the box (several images of one particle) are handled.
+ */
+import { type Box, boxSides } from '../box';
+
+export interface CellList {
+  /** Cells per side. */
+  readonly n: [number, number, number];
+  /** Cell widths (length units). */
+  readonly w: [number, number, number];
+  /** Sorted particles, 4 doubles each: x, y, z (wrapped into the home cell), mass. */
+  readonly xyzm: Float64Array;
+  /** Input row of each sorted particle. */
+  readonly order: Int32Array;
+  /** Sorted slot of each input row. */
+  readonly slot: Int32Array;
+  /** Cell c holds sorted particles start[c] .. start[c+1]−1; cells are numbered (ix·ny + iy)·nz + iz. */
+  readonly start: Int32Array;
+  /** Stencil offsets, 3 ints each; the first is (0,0,0). */
+  readonly stencil: Int32Array;
+  /** Number of leading stencil offsets that form the half stencil (the zero offset plus one of ±o). */
+  readonly halfCount: number;
+}
+
+/** Cell index of a wrapped coordinate. */
+function cellOf(x: number, w: number, n: number): number {
+  const c = Math.floor(x / w);
+  return c < 0 ? 0 : c >= n ? n - 1 : c;
+}
+
+/**
+ * Offsets o with min distance between cell 0 and cell o below rCut; ordered with (0,0,0) first, then the
+ * lexicographically positive half, then their negatives.
+ */
+export function cellStencil(w: [number, number, number], rCut: number): { offsets: Int32Array; halfCount: number } {
+  const reach = w.map((wd) => Math.ceil(rCut / wd)) as [number, number, number];
+  const positive: number[] = [];
+  const r2 = rCut * rCut;
+  for (let ox = 0; ox <= reach[0]; ox++) {
+    for (let oy = -reach[1]; oy <= reach[1]; oy++) {
+      for (let oz = -reach[2]; oz <= reach[2]; oz++) {
+        const positiveHalf = ox > 0 || (ox === 0 && (oy > 0 || (oy === 0 && oz > 0)));
+        if (!positiveHalf) continue;
+        const gx = Math.max(0, Math.abs(ox) - 1) * w[0];
+        const gy = Math.max(0, Math.abs(oy) - 1) * w[1];
+        const gz = Math.max(0, Math.abs(oz) - 1) * w[2];
+        if (gx * gx + gy * gy + gz * gz < r2) positive.push(ox, oy, oz);
+      }
+    }
+  }
+  const half = positive.length / 3;
+  const offsets = new Int32Array(3 * (1 + 2 * half));
+  offsets.set(positive, 3);
+  for (let i = 0; i < positive.length; i++) offsets[3 + positive.length + i] = -positive[i];
+  return { offsets, halfCount: 1 + half };
+}
+
+/** Number of stencil cells for cells of width w and cutoff rCut (cost model helper). */
+export function cellStencilSize(w: [number, number, number], rCut: number): number {
+  return cellStencil(w, rCut).offsets.length / 3;
+}
+
+/**
+ * Builds the cell list with n[d] cells per side. Positions must already lie in the home cell.
+ */
+export function cellListBuild(positions: Float64Array, masses: Float64Array, box: Box, n: [number, number, number], rCut: number): CellList {
+  const sides = boxSides(box);
+  const w: [number, number, number] = [sides[0] / n[0], sides[1] / n[1], sides[2] / n[2]];
+  const count = masses.length;
+  const nCells = n[0] * n[1] * n[2];
+  const cellOfParticle = new Int32Array(count);
+  const start = new Int32Array(nCells + 1);
+  for (let i = 0; i < count; i++) {
+    const c =
+      (cellOf(positions[3 * i], w[0], n[0]) * n[1] + cellOf(positions[3 * i + 1], w[1], n[1])) * n[2] +
+      cellOf(positions[3 * i + 2], w[2], n[2]);
+    cellOfParticle[i] = c;
+    start[c + 1]++;
+  }
+  for (let c = 0; c < nCells; c++) start[c + 1] += start[c];
+  const fill = start.slice(0, nCells);
+  const order = new Int32Array(count);
+  const slot = new Int32Array(count);
+  const xyzm = new Float64Array(4 * count);
+  for (let i = 0; i < count; i++) {
+    const s = fill[cellOfParticle[i]]++;
+    order[s] = i;
+    slot[i] = s;
+    xyzm[4 * s] = positions[3 * i];
+    xyzm[4 * s + 1] = positions[3 * i + 1];
+    xyzm[4 * s + 2] = positions[3 * i + 2];
+    xyzm[4 * s + 3] = masses[i];
+  }
+  const { offsets, halfCount } = cellStencil(w, rCut);
+  return { n, w, xyzm, order, slot, start, stencil: offsets, halfCount };
+}
+
+/** Cell index of a sorted particle's coordinates. */
+export function cellListCellOf(cells: CellList, x: number, y: number, z: number): [number, number, number] {
+  return [cellOf(x, cells.w[0], cells.n[0]), cellOf(y, cells.w[1], cells.n[1]), cellOf(z, cells.w[2], cells.n[2])];
+}

@@ -1,0 +1,261 @@
+/**
+ * Direct Ewald summation for gravity in a periodic rectangular box (Ewald 1921; Hernquist, Bouchet &
+ * Suto 1991, ApJS 75, 231), conventions of PHYSICS.md: mean density removed, zero-mean potential,
+ * zero self-force, potential φ = −G[Σ_{j≠i} m_j ψ(r_i − r_j) + m_i ξ], acceleration a = −∇φ.
+ *
+ * Computing is split into synchronous pieces that a scheduler (worker, CLI threads) can distribute:
+ * ewaldSetup → ewaldStructureFactor (ranges of sources, summed) → ewaldTargetsChunk or
+ * ewaldAllRealChunk + ewaldFourierChunk → ewaldFinalize. ewaldForces runs them all on one thread.
+ */
+import { type Box, boxVolume, positionsWrap } from '../box';
+import { type CellList, cellListBuild } from './cellList';
+import { type KernelTable, kernelTableBuild } from './kernelTable';
+import { type KSpace, kSpaceBuild, kSpaceStructureFactor, kSpaceTargets, kSpaceWeigh } from './kSpace';
+import { type EwaldOptions, type EwaldParams, ewaldParamsChoose } from './params';
+import { type RealSpaceKernel, realSpaceAllSorted, realSpaceTargets } from './realSpace';
+
+export interface EwaldSetup {
+  readonly box: Box;
+  /** Positions wrapped into the home cell (a copy), flat xyz. */
+  readonly positions: Float64Array;
+  readonly masses: Float64Array;
+  /** How many input particles lay outside the home cell and were wrapped. */
+  readonly wrapped: number;
+  readonly params: EwaldParams;
+  readonly cells: CellList;
+  readonly kernel: RealSpaceKernel;
+  readonly kspace: KSpace;
+  readonly totalMass: number;
+}
+
+/** Error for input the engine cannot use; `index` is the 0-based particle, when one is to blame. */
+export class EngineInputError extends Error {
+  constructor(message: string, readonly index?: number, readonly other?: number) {
+    super(message);
+    this.name = 'EngineInputError';
+  }
+}
+
+function validateArrays(positions: Float64Array, masses: Float64Array): void {
+  if (positions.length !== 3 * masses.length) {
+    throw new EngineInputError(`positions hold ${positions.length} numbers but ${masses.length} masses need ${3 * masses.length}`);
+  }
+  for (let i = 0; i < masses.length; i++) {
+    if (!Number.isFinite(masses[i])) throw new EngineInputError(`mass of particle ${i} is not finite (${masses[i]})`, i);
+    for (let d = 0; d < 3; d++) {
+      const v = positions[3 * i + d];
+      if (!Number.isFinite(v)) throw new EngineInputError(`coordinate ${'xyz'[d]} of particle ${i} is not finite (${v})`, i);
+    }
+  }
+}
+
+/** Finds two particles at exactly the same (wrapped) position; returns their input rows or null. */
+export function cellListFindCoincident(cells: CellList): [number, number] | null {
+  const { start, xyzm, order } = cells;
+  for (let c = 0; c + 1 < start.length; c++) {
+    for (let i = start[c]; i < start[c + 1]; i++) {
+      for (let j = i + 1; j < start[c + 1]; j++) {
+        if (xyzm[4 * i] === xyzm[4 * j] && xyzm[4 * i + 1] === xyzm[4 * j + 1] && xyzm[4 * i + 2] === xyzm[4 * j + 2]) {
+          const a = order[i], b = order[j];
+          return a < b ? [a, b] : [b, a];
+        }
+      }
+    }
+  }
+  return null;
+}
+
+/**
+ * Prepares a run: wraps positions (length units) into the box, chooses parameters for `targetCount`
+ * targets, builds the cell list, kernel table and k-vectors. Masses may be signed (lattice-sum checks).
+ */
+export function ewaldSetup(
+  positions: Float64Array,
+  masses: Float64Array,
+  box: Box,
+  options: EwaldOptions = {},
+  targetCount: number = masses.length,
+): EwaldSetup {
+  validateArrays(positions, masses);
+  const wrappedPositions = Float64Array.from(positions);
+  const wrapped = positionsWrap(wrappedPositions, box);
+  const chosen = ewaldParamsChoose(wrappedPositions, masses, box, options, targetCount);
+  const rLoop = Math.max(chosen.rCut, chosen.rSoft);
+  const cells = cellListBuild(wrappedPositions, masses, box, chosen.cells, rLoop);
+  if (chosen.softening.kind === 'none') {
+    const pair = cellListFindCoincident(cells);
+    if (pair) {
+      throw new EngineInputError(
+        `particles ${pair[0]} and ${pair[1]} sit at the same position; without softening their force is infinite (use softening or remove one)`,
+        pair[0],
+        pair[1],
+      );
+    }
+  }
+  const uMax = chosen.alpha * chosen.alpha * chosen.rCut * chosen.rCut;
+  const table: KernelTable = kernelTableBuild(uMax);
+  const kspace = kSpaceBuild(box, chosen.alpha, chosen.kCut);
+  let totalMass = 0;
+  for (let i = 0; i < masses.length; i++) totalMass += masses[i];
+  const params: EwaldParams = { ...chosen, hMax: kspace.hMax, kVectors: kspace.count, stencilCells: cells.stencil.length / 3 };
+  return {
+    box,
+    positions: wrappedPositions,
+    masses,
+    wrapped,
+    params,
+    cells,
+    kernel: { alpha: chosen.alpha, rCut: chosen.rCut, rSoft: chosen.rSoft, softening: chosen.softening, table },
+    kspace,
+    totalMass,
+  };
+}
+
+/** Partial structure factor over source particles [begin, end): interleaved re, im per k-vector. */
+export function ewaldStructureFactor(setup: EwaldSetup, begin = 0, end = setup.masses.length): Float64Array {
+  const s = new Float64Array(2 * setup.kspace.count);
+  kSpaceStructureFactor(setup.kspace, setup.box, setup.positions, setup.masses, begin, end, s);
+  return s;
+}
+
+/** Turns the summed structure factor into the weighted one the evaluation needs (in place). */
+export function ewaldWeighStructureFactor(setup: EwaldSetup, s: Float64Array): Float64Array {
+  return kSpaceWeigh(setup.kspace, s);
+}
+
+/**
+ * Raw sums for targets[begin..end): real space (full stencil) + Fourier; adds into acc[3t..] and phi[t]
+ * (t indexes `targets`). Finish with ewaldFinalize.
+ */
+export function ewaldTargetsChunk(
+  setup: EwaldSetup,
+  weighted: Float64Array,
+  targets: Int32Array,
+  begin: number,
+  end: number,
+  acc: Float64Array,
+  phi: Float64Array,
+): void {
+  realSpaceTargets(setup.cells, setup.box, setup.kernel, targets, begin, end, acc, phi);
+  kSpaceTargets(setup.kspace, setup.box, weighted, setup.positions, targets, begin, end, acc, phi);
+}
+
+/** Fourier raw sums only, for targets[begin..end) (used with the symmetric all-particle real space). */
+export function ewaldFourierChunk(
+  setup: EwaldSetup,
+  weighted: Float64Array,
+  targets: Int32Array,
+  begin: number,
+  end: number,
+  acc: Float64Array,
+  phi: Float64Array,
+): void {
+  kSpaceTargets(setup.kspace, setup.box, weighted, setup.positions, targets, begin, end, acc, phi);
+}
+
+/** Number of cells of the real-space cell list (the unit of work for ewaldAllRealChunk). */
+export function ewaldCellCount(setup: EwaldSetup): number {
+  return setup.cells.start.length - 1;
+}
+
+/**
+ * Symmetric real-space raw sums for all particles, cells [cellBegin, cellEnd); adds into accSorted (3N)
+ * and phiSorted (N) in the cell list's sorted order. Combine chunks with ewaldUnsort.
+ */
+export function ewaldAllRealChunk(setup: EwaldSetup, cellBegin: number, cellEnd: number, accSorted: Float64Array, phiSorted: Float64Array): void {
+  realSpaceAllSorted(setup.cells, setup.box, setup.kernel, cellBegin, cellEnd, accSorted, phiSorted);
+}
+
+/** Adds sorted-order raw sums into input-order arrays (acc 3N, phi N). */
+export function ewaldUnsort(setup: EwaldSetup, accSorted: Float64Array, phiSorted: Float64Array, acc: Float64Array, phi: Float64Array): void {
+  const order = setup.cells.order;
+  for (let s = 0; s < order.length; s++) {
+    const i = order[s];
+    acc[3 * i] += accSorted[3 * s];
+    acc[3 * i + 1] += accSorted[3 * s + 1];
+    acc[3 * i + 2] += accSorted[3 * s + 2];
+    phi[i] += phiSorted[s];
+  }
+}
+
+/**
+ * Turns raw sums into physical results in place: acc ← G·acc; phi ← −G(phi + m_i(−2α/√π) − πM/(α²V)),
+ * i.e. adds the self term and the neutralising-background constant of the zero-mean potential.
+ */
+export function ewaldFinalize(setup: EwaldSetup, targets: Int32Array, acc: Float64Array, phi: Float64Array): void {
+  const { G, alpha } = setup.params;
+  const background = (Math.PI * setup.totalMass) / (alpha * alpha * boxVolume(setup.box));
+  const selfCoef = (2 * alpha) / Math.sqrt(Math.PI);
+  for (let t = 0; t < targets.length; t++) {
+    acc[3 * t] *= G;
+    acc[3 * t + 1] *= G;
+    acc[3 * t + 2] *= G;
+    phi[t] = -G * (phi[t] - setup.masses[targets[t]] * selfCoef - background);
+  }
+}
+
+export interface EwaldResult {
+  /** Targets (input rows) in output order. */
+  readonly targets: Int32Array;
+  /** Accelerations, 3 per target (G·mass/length²). */
+  readonly acc: Float64Array;
+  /** Potentials per target (G·mass/length), zero-mean convention. */
+  readonly phi: Float64Array;
+  readonly params: EwaldParams;
+  /** Particles that lay outside the home cell and were wrapped. */
+  readonly wrapped: number;
+}
+
+/** Progress callback: fraction done in [0, 1]. */
+export type Progress = (fraction: number) => void;
+
+function isAll(targets: Int32Array, n: number): boolean {
+  if (targets.length !== n) return false;
+  for (let i = 0; i < n; i++) if (targets[i] !== i) return false;
+  return true;
+}
+
+/**
+ * Ewald accelerations and potentials on one thread for `targets` (input rows; null = all).
+ * Positions: flat xyz in length units; masses in mass units; results in units with the given G.
+ */
+export function ewaldForces(
+  positions: Float64Array,
+  masses: Float64Array,
+  box: Box,
+  targets: Int32Array | null,
+  options: EwaldOptions = {},
+  onProgress?: Progress,
+): EwaldResult {
+  const n = masses.length;
+  const tg = targets ?? Int32Array.from({ length: n }, (_, i) => i);
+  const all = isAll(tg, n);
+  const setup = ewaldSetup(positions, masses, box, options, all ? n : tg.length);
+  const weighted = ewaldWeighStructureFactor(setup, ewaldStructureFactor(setup));
+  onProgress?.(0.25);
+  const acc = new Float64Array(3 * tg.length);
+  const phi = new Float64Array(tg.length);
+  const chunk = 256;
+  if (all) {
+    const accS = new Float64Array(3 * n);
+    const phiS = new Float64Array(n);
+    const nc = ewaldCellCount(setup);
+    const step = Math.max(1, Math.ceil(nc / 16));
+    for (let c = 0; c < nc; c += step) {
+      ewaldAllRealChunk(setup, c, Math.min(nc, c + step), accS, phiS);
+      onProgress?.(0.25 + (0.4 * Math.min(nc, c + step)) / nc);
+    }
+    ewaldUnsort(setup, accS, phiS, acc, phi);
+    for (let b = 0; b < n; b += chunk) {
+      ewaldFourierChunk(setup, weighted, tg, b, Math.min(n, b + chunk), acc, phi);
+      onProgress?.(0.65 + (0.35 * Math.min(n, b + chunk)) / n);
+    }
+  } else {
+    for (let b = 0; b < tg.length; b += chunk) {
+      ewaldTargetsChunk(setup, weighted, tg, b, Math.min(tg.length, b + chunk), acc, phi);
+      onProgress?.(0.25 + (0.75 * Math.min(tg.length, b + chunk)) / tg.length);
+    }
+  }
+  ewaldFinalize(setup, tg, acc, phi);
+  return { targets: tg, acc, phi, params: setup.params, wrapped: setup.wrapped };
+}

@@ -1,0 +1,254 @@
+/**
+ * Ewald parameters from a requested relative tolerance, with the uncorrelated-positions rms force-error
+ * estimates of Kolafa & Perram (1992, Mol. Simul. 9, 351), for an acceleration (G, mass Σm², volume V):
+ *   real space:    ΔF_r = 2 G √(Q/(r_c V)) e^{−α² r_c²}
+ *   Fourier space: ΔF_k = 2 α G √(2Q/(V k_c)) e^{−k_c²/4α²}        (Q = Σ_j m_j²)
+ * (re-derived in DEVELOPERS.md from ∫|truncated pair force|² d³r). The tolerance is relative to the
+ * smallest acceleration expected among N particles of a Poisson sample (the Holtsmark low tail,
+ * Chandrasekhar 1943, Rev. Mod. Phys. 15, 1: normal field 2π(4/15)^{2/3} G m n^{2/3}, P(β<b) ≈ 4b³/9π),
+ * and the budget is shrunk by a measured clustering factor (our margin for correlated positions).
+ */
+import { type Box, boxSides, boxVolume } from '../box';
+import { type Softening, NO_SOFTENING, softeningSupport, softeningValidate } from '../softening';
+import { cellStencilSize } from './cellList';
+
+export interface EwaldOptions {
+  /** Gravitational constant (default 1). */
+  readonly G?: number;
+  /** Requested relative force tolerance in (0, 1) (default 1e-6). */
+  readonly tol?: number;
+  /** Override: splitting parameter α (1/length). */
+  readonly alpha?: number;
+  /** Override: real-space cutoff radius (length). */
+  readonly rCut?: number;
+  /** Override: Fourier cutoff |k| ≤ kCut (1/length, k = 2πh/L). */
+  readonly kCut?: number;
+  /** Softening kernel (default none). */
+  readonly softening?: Softening;
+}
+
+export interface EwaldParams {
+  readonly G: number;
+  readonly tol: number;
+  readonly alpha: number;
+  readonly rCut: number;
+  readonly kCut: number;
+  /** Largest |h| per axis and the number of half-space k-vectors. */
+  readonly hMax: [number, number, number];
+  readonly kVectors: number;
+  readonly softening: Softening;
+  /** Radius inside which the softened kernel is used (spline: h; Plummer: chosen from tol; none: 0). */
+  readonly rSoft: number;
+  /** Cells per side of the real-space cell list and the number of stencil cells. */
+  readonly cells: [number, number, number];
+  readonly stencilCells: number;
+  /** Predicted rms acceleration errors (acceleration units): real, Fourier, softening tail, total. */
+  readonly realSpaceError: number;
+  readonly fourierError: number;
+  readonly softeningTailError: number;
+  readonly predictedRmsError: number;
+  /** The acceleration the tolerance is relative to, and predictedRmsError divided by it. */
+  readonly accelerationScale: number;
+  readonly predictedRelativeError: number;
+  /** Clustering factor: N_cells Σ n_c² / N² on a grid of ~8 particles per cell (≈1.1 for uniform). */
+  readonly clustering: number;
+}
+
+// Cost model (ns), from `npm run bench` on the project machine: a real-space pair visited once
+// (symmetric) or per target, a candidate pair rejected by distance, one particle × one k-vector per pass.
+const COST_PAIR_SYM = 5.5;
+const COST_PAIR = 4.5;
+const COST_CANDIDATE = 1.2;
+const COST_K = 1.3;
+
+/** Solves 2·A·√(s/x)·e^{−x²} = eps for x ≥ 0.5 (the shape of both Kolafa–Perram estimates). */
+function solveGaussianTail(pref: number, eps: number): number {
+  // f(x) = ln(pref) − ½ ln x − x² − ln eps, decreasing for x > 0
+  const target = Math.log(eps);
+  const f = (x: number) => Math.log(2 * pref) - 0.5 * Math.log(x) - x * x - target;
+  let lo = 0.5, hi = 1;
+  if (f(lo) <= 0) return lo;
+  while (f(hi) > 0) hi *= 2;
+  for (let it = 0; it < 100; it++) {
+    const mid = 0.5 * (lo + hi);
+    if (f(mid) > 0) lo = mid;
+    else hi = mid;
+  }
+  return hi;
+}
+
+/** Real-space estimate ΔF_r (acceleration units). */
+export function ewaldRealSpaceError(G: number, Q: number, V: number, alpha: number, rCut: number): number {
+  return 2 * G * Math.sqrt(Q / (rCut * V)) * Math.exp(-alpha * alpha * rCut * rCut);
+}
+
+/** Fourier-space estimate ΔF_k (acceleration units). */
+export function ewaldFourierError(G: number, Q: number, V: number, alpha: number, kCut: number): number {
+  return 2 * alpha * G * Math.sqrt((2 * Q) / (V * kCut)) * Math.exp(-(kCut * kCut) / (4 * alpha * alpha));
+}
+
+/**
+ * rms error from cutting the Plummer correction (f_P − 1/r³) at radius R: its tail −(3/2)ε²/r⁴ summed
+ * over uncorrelated sources, ΔF² = G² (Q/V) 4π ∫_R^∞ r² (9/4) ε⁴ r⁻⁸ dr = G² (Q/V) (9π/5) ε⁴ R⁻⁵.
+ */
+export function plummerTailError(G: number, Q: number, V: number, eps: number, R: number): number {
+  return G * Math.sqrt(((Q / V) * 9 * Math.PI * eps ** 4) / (5 * R ** 5));
+}
+
+/** Clustering factor N_cells·Σ n_c²/N² on a grid with about 8 particles per cell. */
+export function clusteringFactor(positions: Float64Array, box: Box): number {
+  const n = positions.length / 3;
+  if (n < 16) return 1;
+  const sides = boxSides(box);
+  const perSide = Math.cbrt(n / 8 / boxVolume(box));
+  const g = sides.map((l) => Math.max(1, Math.min(64, Math.round(l * perSide))));
+  const counts = new Float64Array(g[0] * g[1] * g[2]);
+  for (let i = 0; i < n; i++) {
+    const cx = Math.min(g[0] - 1, Math.floor((positions[3 * i] / sides[0]) * g[0]));
+    const cy = Math.min(g[1] - 1, Math.floor((positions[3 * i + 1] / sides[1]) * g[1]));
+    const cz = Math.min(g[2] - 1, Math.floor((positions[3 * i + 2] / sides[2]) * g[2]));
+    counts[(cx * g[1] + cy) * g[2] + cz]++;
+  }
+  let s = 0;
+  for (const c of counts) s += c * c;
+  return Math.max(1, (s * counts.length) / (n * n));
+}
+
+/**
+ * The acceleration scale the tolerance refers to: the Holtsmark normal field 2.6031 G n^{2/3}⟨|m|^{3/2}⟩^{2/3}
+ * times the expected smallest Holtsmark β among N particles, (9π/4N)^{1/3} (capped at 1).
+ */
+export function accelerationScale(G: number, masses: Float64Array, V: number): number {
+  const n = masses.length;
+  let m32 = 0, mAbs = 0;
+  for (let i = 0; i < n; i++) {
+    const a = Math.abs(masses[i]);
+    m32 += a * Math.sqrt(a);
+    mAbs += a;
+  }
+  if (n === 0 || mAbs === 0) return G;
+  const holtsmark = 2 * Math.PI * Math.pow(4 / 15, 2 / 3) * G * Math.pow(n / V, 2 / 3) * Math.pow(m32 / n, 2 / 3);
+  return holtsmark * Math.min(1, Math.cbrt((9 * Math.PI) / (4 * n)));
+}
+
+function kVectorCount(kCut: number, V: number): number {
+  return ((2 * Math.PI) / 3) * Math.pow(kCut / (2 * Math.PI), 3) * V;
+}
+
+/** Chooses cells per side from a cost model: stencil cells × (candidates per cell + per-cell overhead). */
+export function cellGridChoose(box: Box, n: number, rLoop: number): { cells: [number, number, number]; stencil: number } {
+  const sides = boxSides(box);
+  const density = n / boxVolume(box);
+  let best: { cells: [number, number, number]; stencil: number; cost: number } | null = null;
+  for (let perCut = 1; perCut <= 4; perCut++) {
+    const cells = sides.map((l) => Math.max(1, Math.min(512, Math.floor((l * perCut) / rLoop)))) as [number, number, number];
+    if (cells[0] * cells[1] * cells[2] > Math.max(64, 8 * n)) continue;
+    const w = sides.map((l, d) => l / cells[d]) as [number, number, number];
+    const stencil = cellStencilSize(w, rLoop);
+    const cost = stencil * (w[0] * w[1] * w[2] * density * COST_CANDIDATE + 15);
+    if (!best || cost < best.cost) best = { cells, stencil, cost };
+  }
+  if (!best) return { cells: [1, 1, 1], stencil: cellStencilSize(sides as [number, number, number], rLoop) };
+  return { cells: best.cells, stencil: best.stencil };
+}
+
+/**
+ * Chooses α, r_c, k_c (and the Plummer radius) for positions already wrapped into the box, minimising a
+ * cost model under the error budget; explicit overrides are kept and their errors reported.
+ * targetCount: how many targets will be evaluated (all-particle runs use the symmetric pair loop).
+ */
+export function ewaldParamsChoose(
+  positions: Float64Array,
+  masses: Float64Array,
+  box: Box,
+  options: EwaldOptions = {},
+  targetCount: number = masses.length,
+): EwaldParams {
+  const G = options.G ?? 1;
+  const tol = options.tol ?? 1e-6;
+  if (!(G > 0) || !Number.isFinite(G)) throw new RangeError(`G must be a positive finite number, got ${G}`);
+  if (!(tol > 0 && tol < 1)) throw new RangeError(`tolerance must lie in (0, 1), got ${tol}`);
+  for (const [name, v] of [['alpha', options.alpha], ['rCut', options.rCut], ['kCut', options.kCut]] as const) {
+    if (v !== undefined && !(v > 0 && Number.isFinite(v))) throw new RangeError(`${name} must be a positive finite number, got ${v}`);
+  }
+  const softening = softeningValidate(options.softening ?? NO_SOFTENING);
+  const n = masses.length;
+  const V = boxVolume(box);
+  const sides = boxSides(box);
+  let Q = 0;
+  for (let i = 0; i < n; i++) Q += masses[i] * masses[i];
+  if (Q === 0) Q = 1e-300;
+  const clustering = clusteringFactor(positions, box);
+  const scale = accelerationScale(G, masses, V);
+  const budget = (tol * scale) / Math.sqrt(clustering);
+  const parts = softening.kind === 'plummer' ? 3 : 2;
+  const eps = budget / Math.sqrt(parts);
+
+  let rSoft = softeningSupport(softening);
+  if (softening.kind === 'plummer') {
+    // R from plummerTailError(R) = eps, and at least 10 ε.
+    const R = Math.pow((G * G * (Q / V) * 9 * Math.PI * softening.eps ** 4) / (5 * eps * eps), 1 / 5);
+    rSoft = Math.max(R, 10 * softening.eps);
+  }
+
+  const rFor = (alpha: number) => solveGaussianTail(G * Math.sqrt((Q * alpha) / V), eps) / alpha;
+  const kFor = (alpha: number) => 2 * alpha * solveGaussianTail(G * Math.sqrt((Q * alpha) / V), eps);
+  const density = n / V;
+  const symmetric = targetCount >= n;
+  const cost = (alpha: number) => {
+    const rc = options.rCut ?? rFor(alpha);
+    const kc = options.kCut ?? kFor(alpha);
+    const rl = Math.max(rc, rSoft);
+    const pairs = targetCount * ((4 * Math.PI) / 3) * rl ** 3 * density;
+    const real = symmetric ? 0.5 * pairs * COST_PAIR_SYM : pairs * COST_PAIR;
+    const cand = pairs * COST_CANDIDATE * 1.5;
+    const kk = (n + targetCount) * kVectorCount(kc, V) * COST_K;
+    return real + cand + kk;
+  };
+  let alpha = options.alpha ?? 0;
+  if (!options.alpha) {
+    const base = Math.cbrt(n / V) * 1.0 + 1e-300;
+    const maxSide = Math.max(...sides);
+    let bestCost = Infinity;
+    for (let j = -60; j <= 60; j++) {
+      const a = base * Math.pow(2, j / 8);
+      const rc = options.rCut ?? rFor(a);
+      if (rc > 3 * maxSide && j < 60) continue; // keep the stencil from exploding at tiny α
+      const c = cost(a);
+      if (c < bestCost) {
+        bestCost = c;
+        alpha = a;
+      }
+    }
+    if (alpha === 0) alpha = 4 / maxSide;
+  }
+  const rCut = options.rCut ?? rFor(alpha);
+  const kCut = options.kCut ?? kFor(alpha);
+  const realSpaceError = ewaldRealSpaceError(G, Q, V, alpha, rCut);
+  const fourierError = ewaldFourierError(G, Q, V, alpha, kCut);
+  const softeningTailError = softening.kind === 'plummer' ? plummerTailError(G, Q, V, softening.eps, rSoft) : 0;
+  const predictedRmsError = Math.sqrt(clustering) * Math.hypot(realSpaceError, fourierError, softeningTailError);
+  const hMax = sides.map((l) => Math.floor((kCut * l) / (2 * Math.PI) + 1e-12)) as [number, number, number];
+  const rLoop = Math.max(rCut, rSoft);
+  const grid = cellGridChoose(box, n, rLoop);
+  return {
+    G,
+    tol,
+    alpha,
+    rCut,
+    kCut,
+    hMax,
+    kVectors: 0, // filled in by ewaldSetup once the k-vectors are enumerated
+    softening,
+    rSoft,
+    cells: grid.cells,
+    stencilCells: grid.stencil,
+    realSpaceError,
+    fourierError,
+    softeningTailError,
+    predictedRmsError,
+    accelerationScale: scale,
+    predictedRelativeError: predictedRmsError / scale,
+    clustering,
+  };
+}

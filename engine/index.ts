@@ -1,0 +1,8 @@
+// torusgrav engine: pure numerical code and file parsers (typed arrays in, typed arrays out).
+export * from './box';
+export * from './softening';
+export * from './targets';
+export * from './util/random';
+export * from './special/erf';
+export * from './ewald/index';
+export * from './demo/demoSnapshot';
