@@ -1,0 +1,78 @@
+/**
+ * worker_threads adapter over the engine's Ewald pieces (see parallelEwald.ts for the protocol).
+ * It owns no numerics: every message maps to one engine call.
+ */
+import { parentPort } from 'node:worker_threads';
+import { boxMake } from '../../engine/box';
+import {
+  type EwaldSetup,
+  ewaldAllRealChunk,
+  ewaldFourierChunk,
+  ewaldSetup,
+  ewaldStructureFactor,
+  ewaldTargetsChunk,
+} from '../../engine/ewald/ewald';
+import type { WorkerRequest } from './parallelProtocol';
+
+let setup: EwaldSetup | null = null;
+let weighted: Float64Array | null = null;
+let targets: Int32Array | null = null;
+let acc: Float64Array | null = null;
+let phi: Float64Array | null = null;
+let accSorted: Float64Array | null = null;
+let phiSorted: Float64Array | null = null;
+
+parentPort!.on('message', (msg: WorkerRequest) => {
+  try {
+    switch (msg.type) {
+      case 'setup': {
+        setup = ewaldSetup(new Float64Array(msg.positions), new Float64Array(msg.masses), boxMake(...msg.box), msg.options, msg.targetCount);
+        targets = new Int32Array(msg.targets);
+        acc = new Float64Array(msg.acc);
+        phi = new Float64Array(msg.phi);
+        parentPort!.postMessage({ type: 'ready' });
+        break;
+      }
+      case 'structure': {
+        const s = ewaldStructureFactor(setup!, msg.begin, msg.end);
+        parentPort!.postMessage({ type: 'structure', s }, [s.buffer as ArrayBuffer]);
+        break;
+      }
+      case 'weighted': {
+        weighted = new Float64Array(msg.weighted);
+        parentPort!.postMessage({ type: 'done' });
+        break;
+      }
+      case 'targets': {
+        ewaldTargetsChunk(setup!, weighted!, targets!, msg.begin, msg.end, acc!, phi!);
+        parentPort!.postMessage({ type: 'done' });
+        break;
+      }
+      case 'fourier': {
+        ewaldFourierChunk(setup!, weighted!, targets!, msg.begin, msg.end, acc!, phi!);
+        parentPort!.postMessage({ type: 'done' });
+        break;
+      }
+      case 'cells': {
+        const n = setup!.masses.length;
+        if (!accSorted) {
+          accSorted = new Float64Array(3 * n);
+          phiSorted = new Float64Array(n);
+        }
+        ewaldAllRealChunk(setup!, msg.begin, msg.end, accSorted, phiSorted!);
+        parentPort!.postMessage({ type: 'done' });
+        break;
+      }
+      case 'collect': {
+        const n = setup!.masses.length;
+        const a = accSorted ?? new Float64Array(3 * n);
+        const p = phiSorted ?? new Float64Array(n);
+        accSorted = phiSorted = null;
+        parentPort!.postMessage({ type: 'collected', accSorted: a, phiSorted: p }, [a.buffer as ArrayBuffer, p.buffer as ArrayBuffer]);
+        break;
+      }
+    }
+  } catch (e) {
+    parentPort!.postMessage({ type: 'error', message: e instanceof Error ? e.message : String(e) });
+  }
+});
