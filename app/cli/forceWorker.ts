@@ -7,6 +7,7 @@ import { boxMake } from '../../engine/box';
 import {
   type EwaldSetup,
   ewaldAllRealChunk,
+  ewaldAllRealCollect,
   ewaldFourierChunk,
   ewaldSetup,
   ewaldStructureFactor,
@@ -19,8 +20,6 @@ let weighted: Float64Array | null = null;
 let targets: Int32Array | null = null;
 let acc: Float64Array | null = null;
 let phi: Float64Array | null = null;
-let accSorted: Float64Array | null = null;
-let phiSorted: Float64Array | null = null;
 
 parentPort!.on('message', (msg: WorkerRequest) => {
   try {
@@ -54,20 +53,12 @@ parentPort!.on('message', (msg: WorkerRequest) => {
         break;
       }
       case 'cells': {
-        const n = setup!.masses.length;
-        if (!accSorted) {
-          accSorted = new Float64Array(3 * n);
-          phiSorted = new Float64Array(n);
-        }
-        ewaldAllRealChunk(setup!, msg.begin, msg.end, accSorted, phiSorted!);
+        ewaldAllRealChunk(setup!, msg.begin, msg.end);
         parentPort!.postMessage({ type: 'done' });
         break;
       }
       case 'collect': {
-        const n = setup!.masses.length;
-        const a = accSorted ?? new Float64Array(3 * n);
-        const p = phiSorted ?? new Float64Array(n);
-        accSorted = phiSorted = null;
+        const { accSorted: a, phiSorted: p } = ewaldAllRealCollect(setup!);
         parentPort!.postMessage({ type: 'collected', accSorted: a, phiSorted: p }, [a.buffer as ArrayBuffer, p.buffer as ArrayBuffer]);
         break;
       }

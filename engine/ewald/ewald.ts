@@ -13,6 +13,8 @@ import { type KernelTable, kernelTableBuild } from './kernelTable';
 import { type KSpace, kSpaceBuild, kSpaceStructureFactor, kSpaceTargets, kSpaceWeigh } from './kSpace';
 import { type EwaldOptions, type EwaldParams, ewaldParamsChoose } from './params';
 import { type RealSpaceKernel, realSpaceAllSorted, realSpaceTargets } from './realSpace';
+import { type KSpaceWasm, kSpaceWasmCreate } from '../wasm/kSpaceWasm';
+import { type RealSpaceWasm, realSpaceWasmCreate } from '../wasm/realSpaceWasm';
 
 export interface EwaldSetup {
   readonly box: Box;
@@ -26,6 +28,22 @@ export interface EwaldSetup {
   readonly kernel: RealSpaceKernel;
   readonly kspace: KSpace;
   readonly totalMass: number;
+  /** WebAssembly context of the Fourier kernels (created on first use; null where unavailable). */
+  kWasm?: KSpaceWasm | null;
+  /** WebAssembly context of the real-space kernels (created on first use; null where unavailable). */
+  rWasm?: RealSpaceWasm | null;
+  /** JavaScript-path accumulators of the symmetric all-particle real-space sums (sorted order). */
+  allSorted?: { acc: Float64Array; phi: Float64Array };
+}
+
+function realWasm(setup: EwaldSetup): RealSpaceWasm | null {
+  if (setup.rWasm === undefined) setup.rWasm = realSpaceWasmCreate(setup.cells, setup.box, setup.kernel);
+  return setup.rWasm;
+}
+
+function fourierWasm(setup: EwaldSetup): KSpaceWasm | null {
+  if (setup.kWasm === undefined) setup.kWasm = kSpaceWasmCreate(setup.kspace, setup.box, setup.positions, setup.masses);
+  return setup.kWasm;
 }
 
 /** Error for input the engine cannot use; `index` is the 0-based particle, when one is to blame. */
@@ -114,7 +132,9 @@ export function ewaldSetup(
 /** Partial structure factor over source particles [begin, end): interleaved re, im per k-vector. */
 export function ewaldStructureFactor(setup: EwaldSetup, begin = 0, end = setup.masses.length): Float64Array {
   const s = new Float64Array(2 * setup.kspace.count);
-  kSpaceStructureFactor(setup.kspace, setup.box, setup.positions, setup.masses, begin, end, s);
+  const w = fourierWasm(setup);
+  if (w) w.structureFactor(begin, end, s);
+  else kSpaceStructureFactor(setup.kspace, setup.box, setup.positions, setup.masses, begin, end, s);
   return s;
 }
 
@@ -136,8 +156,10 @@ export function ewaldTargetsChunk(
   acc: Float64Array,
   phi: Float64Array,
 ): void {
-  realSpaceTargets(setup.cells, setup.box, setup.kernel, targets, begin, end, acc, phi);
-  kSpaceTargets(setup.kspace, setup.box, weighted, setup.positions, targets, begin, end, acc, phi);
+  const w = realWasm(setup);
+  if (w) w.targets(targets, begin, end, acc, phi);
+  else realSpaceTargets(setup.cells, setup.box, setup.kernel, targets, begin, end, acc, phi);
+  ewaldFourierChunk(setup, weighted, targets, begin, end, acc, phi);
 }
 
 /** Fourier raw sums only, for targets[begin..end) (used with the symmetric all-particle real space). */
@@ -150,7 +172,9 @@ export function ewaldFourierChunk(
   acc: Float64Array,
   phi: Float64Array,
 ): void {
-  kSpaceTargets(setup.kspace, setup.box, weighted, setup.positions, targets, begin, end, acc, phi);
+  const w = fourierWasm(setup);
+  if (w) w.targets(weighted, targets, begin, end, acc, phi);
+  else kSpaceTargets(setup.kspace, setup.box, weighted, setup.positions, targets, begin, end, acc, phi);
 }
 
 /** Number of cells of the real-space cell list (the unit of work for ewaldAllRealChunk). */
@@ -159,11 +183,33 @@ export function ewaldCellCount(setup: EwaldSetup): number {
 }
 
 /**
- * Symmetric real-space raw sums for all particles, cells [cellBegin, cellEnd); adds into accSorted (3N)
- * and phiSorted (N) in the cell list's sorted order. Combine chunks with ewaldUnsort.
+ * Symmetric real-space raw sums for all particles over cells [cellBegin, cellEnd), accumulated inside
+ * the setup (each pair once, Newton's third law); fetch them with ewaldAllRealCollect.
  */
-export function ewaldAllRealChunk(setup: EwaldSetup, cellBegin: number, cellEnd: number, accSorted: Float64Array, phiSorted: Float64Array): void {
-  realSpaceAllSorted(setup.cells, setup.box, setup.kernel, cellBegin, cellEnd, accSorted, phiSorted);
+export function ewaldAllRealChunk(setup: EwaldSetup, cellBegin: number, cellEnd: number): void {
+  const w = realWasm(setup);
+  if (w) {
+    w.allChunk(cellBegin, cellEnd);
+    return;
+  }
+  const n = setup.masses.length;
+  setup.allSorted ??= { acc: new Float64Array(3 * n), phi: new Float64Array(n) };
+  realSpaceAllSorted(setup.cells, setup.box, setup.kernel, cellBegin, cellEnd, setup.allSorted.acc, setup.allSorted.phi);
+}
+
+/** Returns the accumulated all-particle real-space sums (sorted order: acc 3N, phi N) and clears them. */
+export function ewaldAllRealCollect(setup: EwaldSetup): { accSorted: Float64Array; phiSorted: Float64Array } {
+  const n = setup.masses.length;
+  const accSorted = new Float64Array(3 * n);
+  const phiSorted = new Float64Array(n);
+  const w = realWasm(setup);
+  if (w) w.allCollect(accSorted, phiSorted);
+  else if (setup.allSorted) {
+    accSorted.set(setup.allSorted.acc);
+    phiSorted.set(setup.allSorted.phi);
+    setup.allSorted = undefined;
+  }
+  return { accSorted, phiSorted };
 }
 
 /** Adds sorted-order raw sums into input-order arrays (acc 3N, phi N). */
@@ -237,15 +283,14 @@ export function ewaldForces(
   const phi = new Float64Array(tg.length);
   const chunk = 256;
   if (all) {
-    const accS = new Float64Array(3 * n);
-    const phiS = new Float64Array(n);
     const nc = ewaldCellCount(setup);
     const step = Math.max(1, Math.ceil(nc / 16));
     for (let c = 0; c < nc; c += step) {
-      ewaldAllRealChunk(setup, c, Math.min(nc, c + step), accS, phiS);
+      ewaldAllRealChunk(setup, c, Math.min(nc, c + step));
       onProgress?.(0.25 + (0.4 * Math.min(nc, c + step)) / nc);
     }
-    ewaldUnsort(setup, accS, phiS, acc, phi);
+    const { accSorted, phiSorted } = ewaldAllRealCollect(setup);
+    ewaldUnsort(setup, accSorted, phiSorted, acc, phi);
     for (let b = 0; b < n; b += chunk) {
       ewaldFourierChunk(setup, weighted, tg, b, Math.min(n, b + chunk), acc, phi);
       onProgress?.(0.65 + (0.35 * Math.min(n, b + chunk)) / n);

@@ -1,0 +1,3 @@
+// Entry point of the WebAssembly kernels: re-exports each kernel module.
+export { structureFactor, fourierTargets } from './kspace';
+export { setKernel, realSpaceAll, realSpaceTargets } from './realspace';

@@ -1,0 +1,290 @@
+// AssemblyScript source of the real-space Ewald kernels (JavaScript twin and definitions:
+// engine/ewald/realSpace.ts). Sorted particles in SoA arrays xs, ys, zs, ms; the kernel table holds 12
+// f64 per interval (degree-5 monomials in t ∈ [−1,1] for forceP, then potQ).
+// Pair terms: F = f_short − α³P(u), Ψ = ψ_short − αQ(u) for r < rCut, f_short − 1/r³ beyond (softening only).
+
+// Kernel parameters, set once per context by setKernel.
+let gAlpha: f64 = 0;
+let gAlpha3: f64 = 0;
+let gRc2: f64 = 0;
+let gRs2: f64 = 0;
+let gRl2: f64 = 0;
+let gUScale: f64 = 0;
+let gUClamp: f64 = 0;
+let gTable: usize = 0;
+let gSoftKind: i32 = 0; // 0 none, 1 Plummer, 2 cubic spline
+let gSoftLen: f64 = 0; // ε or h
+// Scalar pair results.
+let gF: f64 = 0;
+let gP: f64 = 0;
+
+export function setKernel(alpha: f64, rCut: f64, rSoft: f64, perUnit: f64, uMax: f64, table: usize, softKind: i32, softLen: f64): void {
+  gAlpha = alpha;
+  gAlpha3 = alpha * alpha * alpha;
+  gRc2 = rCut * rCut;
+  gRs2 = rSoft * rSoft;
+  gRl2 = gRc2 > gRs2 ? gRc2 : gRs2;
+  gUScale = alpha * alpha * perUnit;
+  gUClamp = uMax * perUnit;
+  gTable = table;
+  gSoftKind = softKind;
+  gSoftLen = softLen;
+}
+
+@inline function hornerP(o: usize, t: f64): f64 {
+  return load<f64>(o) + t * (load<f64>(o, 8) + t * (load<f64>(o, 16) + t * (load<f64>(o, 24) + t * (load<f64>(o, 32) + t * load<f64>(o, 40)))));
+}
+
+@inline function hornerQ(o: usize, t: f64): f64 {
+  return load<f64>(o, 48) + t * (load<f64>(o, 56) + t * (load<f64>(o, 64) + t * (load<f64>(o, 72) + t * (load<f64>(o, 80) + t * load<f64>(o, 88)))));
+}
+
+// Generic scalar pair (any r2 < gRl2, r2 > 0 or softened): sets gF, gP.
+function pairScalar(r2: f64): void {
+  let fs: f64, ps: f64;
+  if (r2 < gRs2) {
+    if (gSoftKind == 1) {
+      const q = r2 + gSoftLen * gSoftLen;
+      const iq = 1.0 / Math.sqrt(q);
+      fs = iq * iq * iq;
+      ps = iq;
+    } else {
+      const h = gSoftLen;
+      const r = Math.sqrt(r2);
+      const u = r / h;
+      const u2 = u * u;
+      const h3 = h * h * h;
+      if (u < 0.5) {
+        fs = (32.0 / 3.0 + u2 * (-192.0 / 5.0 + 32.0 * u)) / h3;
+        ps = (14.0 / 5.0 + u2 * (-16.0 / 3.0 + u2 * (48.0 / 5.0 - (32.0 / 5.0) * u))) / h;
+      } else {
+        fs = (64.0 / 3.0 - 48.0 * u + (192.0 / 5.0) * u2 - (32.0 / 3.0) * u2 * u - 1.0 / (15.0 * u2 * u)) / h3;
+        ps = (16.0 / 5.0 - 1.0 / (15.0 * u) + u2 * (-32.0 / 3.0 + u * (16.0 + u * (-48.0 / 5.0 + (32.0 / 15.0) * u)))) / h;
+      }
+    }
+  } else {
+    const ir = 1.0 / Math.sqrt(r2);
+    fs = ir * ir * ir;
+    ps = ir;
+  }
+  if (r2 < gRc2) {
+    const s = r2 * gUScale;
+    const iv = <i32>s;
+    const t = 2.0 * (s - <f64>iv) - 1.0;
+    const o = gTable + <usize>iv * 96;
+    gF = fs - gAlpha3 * hornerP(o, t);
+    gP = ps - gAlpha * hornerQ(o, t);
+  } else {
+    const ir = 1.0 / Math.sqrt(r2);
+    gF = fs - ir * ir * ir;
+    gP = ps - ir;
+  }
+}
+
+@inline function lane2(o0: usize, o1: usize, off: usize): v128 {
+  return f64x2.replace_lane(f64x2.splat(load<f64>(o0 + off)), 1, load<f64>(o1 + off));
+}
+
+// Accumulators for the i particle of the current inner loop (vector lanes summed at the end).
+let vAx: v128 = f64x2.splat(0);
+let vAy: v128 = f64x2.splat(0);
+let vAz: v128 = f64x2.splat(0);
+let vPp: v128 = f64x2.splat(0);
+
+/**
+ * Pair terms of particle (px,py,pz) with sources j0..j1−1 (skipping `skip`), accumulated into vAx.. with
+ * sign −m_j F d (and Σ m_j Ψ). When `mi` ≠ 0 also adds +m_i F d, m_i Ψ into the sources' accumulators
+ * (symmetric mode).
+ */
+@inline function pairRun(
+  px: f64, py: f64, pz: f64, mi: f64, symmetric: bool, j0: i32, j1: i32, skip: i32,
+  xs: usize, ys: usize, zs: usize, ms: usize, ax: usize, ay: usize, az: usize, ph: usize,
+): void {
+  const pxv = f64x2.splat(px), pyv = f64x2.splat(py), pzv = f64x2.splat(pz);
+  const rl2v = f64x2.splat(gRl2), rc2v = f64x2.splat(gRc2), rs2v = f64x2.splat(gRs2);
+  const uScaleV = f64x2.splat(gUScale), uClampV = f64x2.splat(gUClamp);
+  const a3v = f64x2.splat(gAlpha3), a1v = f64x2.splat(gAlpha);
+  const one = f64x2.splat(1.0), two = f64x2.splat(2.0);
+  const miv = f64x2.splat(mi);
+  let j = j0;
+  for (; j + 1 < j1; j += 2) {
+    const jo = <usize>j << 3;
+    const dx = f64x2.sub(pxv, v128.load(xs + jo));
+    const dy = f64x2.sub(pyv, v128.load(ys + jo));
+    const dz = f64x2.sub(pzv, v128.load(zs + jo));
+    const r2 = f64x2.add(f64x2.add(f64x2.mul(dx, dx), f64x2.mul(dy, dy)), f64x2.mul(dz, dz));
+    const inside = f64x2.lt(r2, rl2v);
+    if (!v128.any_true(inside)) continue;
+    // Lanes that need the scalar path: softened, beyond rCut (softening only), or the skipped self term.
+    const special = v128.or(f64x2.lt(r2, rs2v), v128.and(inside, f64x2.ge(r2, rc2v)));
+    if (v128.any_true(special) || j == skip || j + 1 == skip) {
+      for (let l = 0; l < 2; l++) {
+        const jj = j + l;
+        if (jj == skip) continue;
+        const ddx = px - load<f64>(xs + (<usize>jj << 3));
+        const ddy = py - load<f64>(ys + (<usize>jj << 3));
+        const ddz = pz - load<f64>(zs + (<usize>jj << 3));
+        const rr = ddx * ddx + ddy * ddy + ddz * ddz;
+        if (rr >= gRl2) continue;
+        pairScalar(rr);
+        const mj = load<f64>(ms + (<usize>jj << 3));
+        const fx = gF * ddx, fy = gF * ddy, fz = gF * ddz;
+        vAx = f64x2.sub(vAx, f64x2.replace_lane(f64x2.splat(0), 0, mj * fx));
+        vAy = f64x2.sub(vAy, f64x2.replace_lane(f64x2.splat(0), 0, mj * fy));
+        vAz = f64x2.sub(vAz, f64x2.replace_lane(f64x2.splat(0), 0, mj * fz));
+        vPp = f64x2.add(vPp, f64x2.replace_lane(f64x2.splat(0), 0, mj * gP));
+        if (symmetric) {
+          const jo2 = <usize>jj << 3;
+          store<f64>(ax + jo2, load<f64>(ax + jo2) + mi * fx);
+          store<f64>(ay + jo2, load<f64>(ay + jo2) + mi * fy);
+          store<f64>(az + jo2, load<f64>(az + jo2) + mi * fz);
+          store<f64>(ph + jo2, load<f64>(ph + jo2) + mi * gP);
+        }
+      }
+      continue;
+    }
+    const ir = f64x2.div(one, f64x2.sqrt(r2));
+    const s = f64x2.min(f64x2.mul(r2, uScaleV), uClampV);
+    const iv = i32x4.trunc_sat_f64x2_s_zero(s);
+    const i0 = i32x4.extract_lane(iv, 0), i1 = i32x4.extract_lane(iv, 1);
+    const t = f64x2.sub(f64x2.mul(two, f64x2.sub(s, f64x2.convert_low_i32x4_s(iv))), one);
+    const o0 = gTable + <usize>i0 * 96, o1 = gTable + <usize>i1 * 96;
+    let P = lane2(o0, o1, 40);
+    P = f64x2.add(lane2(o0, o1, 32), f64x2.mul(t, P));
+    P = f64x2.add(lane2(o0, o1, 24), f64x2.mul(t, P));
+    P = f64x2.add(lane2(o0, o1, 16), f64x2.mul(t, P));
+    P = f64x2.add(lane2(o0, o1, 8), f64x2.mul(t, P));
+    P = f64x2.add(lane2(o0, o1, 0), f64x2.mul(t, P));
+    let Q = lane2(o0, o1, 88);
+    Q = f64x2.add(lane2(o0, o1, 80), f64x2.mul(t, Q));
+    Q = f64x2.add(lane2(o0, o1, 72), f64x2.mul(t, Q));
+    Q = f64x2.add(lane2(o0, o1, 64), f64x2.mul(t, Q));
+    Q = f64x2.add(lane2(o0, o1, 56), f64x2.mul(t, Q));
+    Q = f64x2.add(lane2(o0, o1, 48), f64x2.mul(t, Q));
+    const F = v128.and(f64x2.sub(f64x2.mul(f64x2.mul(ir, ir), ir), f64x2.mul(a3v, P)), inside);
+    const Pot = v128.and(f64x2.sub(ir, f64x2.mul(a1v, Q)), inside);
+    const mj = v128.load(ms + jo);
+    const fx = f64x2.mul(F, dx), fy = f64x2.mul(F, dy), fz = f64x2.mul(F, dz);
+    vAx = f64x2.sub(vAx, f64x2.mul(mj, fx));
+    vAy = f64x2.sub(vAy, f64x2.mul(mj, fy));
+    vAz = f64x2.sub(vAz, f64x2.mul(mj, fz));
+    vPp = f64x2.add(vPp, f64x2.mul(mj, Pot));
+    if (symmetric) {
+      v128.store(ax + jo, f64x2.add(v128.load(ax + jo), f64x2.mul(miv, fx)));
+      v128.store(ay + jo, f64x2.add(v128.load(ay + jo), f64x2.mul(miv, fy)));
+      v128.store(az + jo, f64x2.add(v128.load(az + jo), f64x2.mul(miv, fz)));
+      v128.store(ph + jo, f64x2.add(v128.load(ph + jo), f64x2.mul(miv, Pot)));
+    }
+  }
+  if (j < j1 && j != skip) {
+    const jo = <usize>j << 3;
+    const ddx = px - load<f64>(xs + jo), ddy = py - load<f64>(ys + jo), ddz = pz - load<f64>(zs + jo);
+    const rr = ddx * ddx + ddy * ddy + ddz * ddz;
+    if (rr < gRl2) {
+      pairScalar(rr);
+      const mj = load<f64>(ms + jo);
+      const fx = gF * ddx, fy = gF * ddy, fz = gF * ddz;
+      vAx = f64x2.sub(vAx, f64x2.replace_lane(f64x2.splat(0), 0, mj * fx));
+      vAy = f64x2.sub(vAy, f64x2.replace_lane(f64x2.splat(0), 0, mj * fy));
+      vAz = f64x2.sub(vAz, f64x2.replace_lane(f64x2.splat(0), 0, mj * fz));
+      vPp = f64x2.add(vPp, f64x2.replace_lane(f64x2.splat(0), 0, mj * gP));
+      if (symmetric) {
+        store<f64>(ax + jo, load<f64>(ax + jo) + mi * fx);
+        store<f64>(ay + jo, load<f64>(ay + jo) + mi * fy);
+        store<f64>(az + jo, load<f64>(az + jo) + mi * fz);
+        store<f64>(ph + jo, load<f64>(ph + jo) + mi * gP);
+      }
+    }
+  }
+}
+
+@inline function hsum(v: v128): f64 {
+  return f64x2.extract_lane(v, 0) + f64x2.extract_lane(v, 1);
+}
+
+@inline function floorDiv(a: i32, b: i32): i32 {
+  return <i32>Math.floor(<f64>a / <f64>b);
+}
+
+/**
+ * All particles, each pair once (half stencil): cells [cellBegin, cellEnd) of an nx×ny×nz grid;
+ * start: i32 cell offsets (nCells+1); stencil: 3 i32 per offset, the first halfCount of which are used.
+ * Adds into the SoA sorted accumulators ax, ay, az, ph.
+ */
+export function realSpaceAll(
+  cellBegin: i32, cellEnd: i32, nx: i32, ny: i32, nz: i32, lx: f64, ly: f64, lz: f64,
+  start: usize, stencil: usize, halfCount: i32,
+  xs: usize, ys: usize, zs: usize, ms: usize, ax: usize, ay: usize, az: usize, ph: usize,
+): void {
+  for (let cell0 = cellBegin; cell0 < cellEnd; cell0++) {
+    const i0 = load<i32>(start + (<usize>cell0 << 2)), i1 = load<i32>(start + (<usize>cell0 << 2), 4);
+    if (i0 == i1) continue;
+    const cz = cell0 % nz;
+    const cy = ((cell0 - cz) / nz) % ny;
+    const cx = (cell0 - cz - cy * nz) / (ny * nz);
+    for (let q = 0; q < halfCount; q++) {
+      const so = stencil + <usize>(12 * q);
+      let ix = cx + load<i32>(so), iy = cy + load<i32>(so, 4), iz = cz + load<i32>(so, 8);
+      let sx: f64 = 0, sy: f64 = 0, sz: f64 = 0;
+      if (ix < 0 || ix >= nx) { const f = floorDiv(ix, nx); ix -= f * nx; sx = <f64>f * lx; }
+      if (iy < 0 || iy >= ny) { const f = floorDiv(iy, ny); iy -= f * ny; sy = <f64>f * ly; }
+      if (iz < 0 || iz >= nz) { const f = floorDiv(iz, nz); iz -= f * nz; sz = <f64>f * lz; }
+      const cell = (ix * ny + iy) * nz + iz;
+      const j0 = load<i32>(start + (<usize>cell << 2)), j1 = load<i32>(start + (<usize>cell << 2), 4);
+      if (j0 == j1) continue;
+      for (let i = i0; i < i1; i++) {
+        const io = <usize>i << 3;
+        const mi = load<f64>(ms + io);
+        vAx = f64x2.splat(0); vAy = f64x2.splat(0); vAz = f64x2.splat(0); vPp = f64x2.splat(0);
+        pairRun(load<f64>(xs + io) - sx, load<f64>(ys + io) - sy, load<f64>(zs + io) - sz, mi, true,
+          q == 0 ? i + 1 : j0, j1, -1, xs, ys, zs, ms, ax, ay, az, ph);
+        store<f64>(ax + io, load<f64>(ax + io) + hsum(vAx));
+        store<f64>(ay + io, load<f64>(ay + io) + hsum(vAy));
+        store<f64>(az + io, load<f64>(az + io) + hsum(vAz));
+        store<f64>(ph + io, load<f64>(ph + io) + hsum(vPp));
+      }
+    }
+  }
+}
+
+/**
+ * Per-target real-space sums (full stencil): targets are sorted slots tslot[begin..end) with wrapped
+ * positions; writes (adds) acc[3(t−begin)..] and phi[t−begin] (AoS, chunk-relative).
+ */
+export function realSpaceTargets(
+  tslot: usize, begin: i32, end: i32, nx: i32, ny: i32, nz: i32, lx: f64, ly: f64, lz: f64,
+  wx: f64, wy: f64, wz: f64, start: usize, stencil: usize, nStencil: i32,
+  xs: usize, ys: usize, zs: usize, ms: usize, acc: usize, phi: usize,
+): void {
+  for (let t = begin; t < end; t++) {
+    const si = load<i32>(tslot + (<usize>t << 2));
+    const io = <usize>si << 3;
+    const x = load<f64>(xs + io), y = load<f64>(ys + io), z = load<f64>(zs + io);
+    let cx = <i32>Math.floor(x / wx), cy = <i32>Math.floor(y / wy), cz = <i32>Math.floor(z / wz);
+    if (cx >= nx) cx = nx - 1;
+    if (cy >= ny) cy = ny - 1;
+    if (cz >= nz) cz = nz - 1;
+    if (cx < 0) cx = 0;
+    if (cy < 0) cy = 0;
+    if (cz < 0) cz = 0;
+    vAx = f64x2.splat(0); vAy = f64x2.splat(0); vAz = f64x2.splat(0); vPp = f64x2.splat(0);
+    for (let q = 0; q < nStencil; q++) {
+      const so = stencil + <usize>(12 * q);
+      let ix = cx + load<i32>(so), iy = cy + load<i32>(so, 4), iz = cz + load<i32>(so, 8);
+      let px = x, py = y, pz = z;
+      if (ix < 0 || ix >= nx) { const f = floorDiv(ix, nx); ix -= f * nx; px -= <f64>f * lx; }
+      if (iy < 0 || iy >= ny) { const f = floorDiv(iy, ny); iy -= f * ny; py -= <f64>f * ly; }
+      if (iz < 0 || iz >= nz) { const f = floorDiv(iz, nz); iz -= f * nz; pz -= <f64>f * lz; }
+      const cell = (ix * ny + iy) * nz + iz;
+      const j0 = load<i32>(start + (<usize>cell << 2)), j1 = load<i32>(start + (<usize>cell << 2), 4);
+      if (j0 == j1) continue;
+      pairRun(px, py, pz, 0, false, j0, j1, q == 0 ? si : -1, xs, ys, zs, ms, 0, 0, 0, 0);
+    }
+    const a = acc + <usize>(24 * (t - begin));
+    store<f64>(a, load<f64>(a) + hsum(vAx));
+    store<f64>(a, load<f64>(a, 8) + hsum(vAy), 8);
+    store<f64>(a, load<f64>(a, 16) + hsum(vAz), 16);
+    const p = phi + (<usize>(t - begin) << 3);
+    store<f64>(p, load<f64>(p) + hsum(vPp));
+  }
+}

@@ -1,0 +1,87 @@
+/**
+ * The Fourier-space kernels of kSpace.ts run in WebAssembly (SIMD): same definitions, same order of
+ * summation per k-column, so results agree with the JavaScript twin to rounding. One context per setup
+ * (per thread): positions, masses and the k-columns are copied into the instance's memory once.
+ */
+import { type Box } from '../box';
+import { type KSpace } from '../ewald/kSpace';
+import { WasmArena, kernelInstance } from './module';
+
+export interface KSpaceWasm {
+  /** Adds the structure factor of particles [begin, end) into s (interleaved re, im). */
+  structureFactor(begin: number, end: number, s: Float64Array): void;
+  /** Adds the Fourier raw sums of targets[begin..end) into acc[3t..], phi[t] (ws from kSpaceWeigh). */
+  targets(ws: Float64Array, targets: Int32Array, begin: number, end: number, acc: Float64Array, phi: Float64Array): void;
+}
+
+/** Creates the WebAssembly context, or returns null when WebAssembly SIMD is unavailable. */
+export function kSpaceWasmCreate(ks: KSpace, box: Box, positions: Float64Array, masses: Float64Array): KSpaceWasm | null {
+  const k = kernelInstance();
+  if (!k) return null;
+  const arena = new WasmArena(k);
+  const n = masses.length;
+  const nCol = ks.colHx.length;
+  const nk = ks.count;
+  const [Hx, Hy, Hz] = ks.hMax;
+  const pPos = arena.alloc(8 * 3 * n);
+  const pMass = arena.alloc(8 * n);
+  const pCols = [ks.colHx, ks.colHy, ks.colHz0, ks.colHz1, ks.colK0].map((col) => {
+    const p = arena.alloc(4 * nCol);
+    arena.i32(p, nCol).set(col);
+    return p;
+  });
+  const pSr = arena.alloc(8 * nk + 16);
+  const pSi = arena.alloc(8 * nk + 16);
+  const scratch = arena.alloc(8 * 2 * (Hx + 3 + 2 * Hy + 3 + 2 * Hz + 3) + 64);
+  arena.f64(pPos, 3 * n).set(positions);
+  arena.f64(pMass, n).set(masses);
+  const tx = (2 * Math.PI) / box.lx, ty = (2 * Math.PI) / box.ly, tz = (2 * Math.PI) / box.lz;
+  let pTargets = 0, targetsRef: Int32Array | null = null;
+  let pAcc = 0, pPhi = 0, chunkCap = 0;
+  let weightedRef: Float64Array | null = null;
+  return {
+    structureFactor(begin, end, s) {
+      arena.f64(pSr, nk).fill(0);
+      arena.f64(pSi, nk).fill(0);
+      k.structureFactor(pPos, pMass, begin, end, nCol, ...pCols, Hx, Hy, Hz, tx, ty, tz, pSr, pSi, scratch);
+      const sr = arena.f64(pSr, nk), si = arena.f64(pSi, nk);
+      for (let q = 0; q < nk; q++) {
+        s[2 * q] += sr[q];
+        s[2 * q + 1] += si[q];
+      }
+      weightedRef = null;
+    },
+    targets(ws, targets, begin, end, acc, phi) {
+      if (weightedRef !== ws) {
+        const sr = arena.f64(pSr, nk), si = arena.f64(pSi, nk);
+        for (let q = 0; q < nk; q++) {
+          sr[q] = ws[2 * q];
+          si[q] = ws[2 * q + 1];
+        }
+        weightedRef = ws;
+      }
+      if (targetsRef !== targets) {
+        pTargets = arena.alloc(4 * targets.length);
+        arena.i32(pTargets, targets.length).set(targets);
+        targetsRef = targets;
+      }
+      const m = end - begin;
+      if (m > chunkCap) {
+        chunkCap = Math.max(m, 256);
+        pAcc = arena.alloc(8 * 3 * chunkCap);
+        pPhi = arena.alloc(8 * chunkCap);
+      }
+      arena.f64(pAcc, 3 * m).fill(0);
+      arena.f64(pPhi, m).fill(0);
+      // The kernel indexes acc by t; shift the base so that t = begin lands at the chunk's start.
+      k.fourierTargets(pPos, pTargets, begin, end, nCol, ...pCols, Hx, Hy, Hz, tx, ty, tz, pSr, pSi, pAcc - 24 * begin, pPhi - 8 * begin, scratch);
+      const a = arena.f64(pAcc, 3 * m), p = arena.f64(pPhi, m);
+      for (let t = 0; t < m; t++) {
+        acc[3 * (begin + t)] += a[3 * t];
+        acc[3 * (begin + t) + 1] += a[3 * t + 1];
+        acc[3 * (begin + t) + 2] += a[3 * t + 2];
+        phi[begin + t] += p[t];
+      }
+    },
+  };
+}

@@ -1,0 +1,76 @@
+/**
+ * Loads the engine's WebAssembly kernels (SIMD) once per thread. Returns null where WebAssembly SIMD is
+ * unavailable or disabled (globalThis.TORUSGRAV_NO_WASM = true, or env TORUSGRAV_NO_WASM=1 in Node), and
+ * callers then use the JavaScript twins of the kernels.
+ */
+import { KERNELS_WASM_BASE64 } from './kernelsBinary';
+
+export interface KernelExports {
+  memory: WebAssembly.Memory;
+  structureFactor: (...args: number[]) => void;
+  fourierTargets: (...args: number[]) => void;
+}
+
+let cached: WebAssembly.Module | null | undefined;
+
+function disabled(): boolean {
+  const g = globalThis as { TORUSGRAV_NO_WASM?: boolean; process?: { env?: Record<string, string | undefined> } };
+  return g.TORUSGRAV_NO_WASM === true || g.process?.env?.TORUSGRAV_NO_WASM === '1';
+}
+
+function decodeBase64(b64: string): Uint8Array<ArrayBuffer> {
+  const bin = atob(b64);
+  const bytes = new Uint8Array(new ArrayBuffer(bin.length));
+  for (let i = 0; i < bin.length; i++) bytes[i] = bin.charCodeAt(i);
+  return bytes;
+}
+
+/** The compiled kernel module, or null when WebAssembly SIMD cannot be used here. */
+export function kernelModule(): WebAssembly.Module | null {
+  if (disabled()) return null;
+  if (cached !== undefined) return cached;
+  try {
+    const bytes = decodeBase64(KERNELS_WASM_BASE64);
+    cached = WebAssembly.validate(bytes) ? new WebAssembly.Module(bytes) : null;
+  } catch {
+    cached = null;
+  }
+  return cached;
+}
+
+/** A fresh instance (own linear memory) of the kernels, or null. */
+export function kernelInstance(): KernelExports | null {
+  const mod = kernelModule();
+  if (!mod) return null;
+  const instance = new WebAssembly.Instance(mod, {
+    env: {
+      abort: () => {
+        throw new Error('wasm kernel aborted');
+      },
+    },
+  });
+  return instance.exports as unknown as KernelExports;
+}
+
+/** Bump allocator over a kernel instance's memory: 16-byte aligned regions above the first 64 KiB. */
+export class WasmArena {
+  private top = 65536;
+  constructor(readonly k: KernelExports) {}
+
+  /** Reserves `bytes` and returns the byte offset; grows memory as needed. */
+  alloc(bytes: number): number {
+    const at = this.top;
+    this.top = (this.top + bytes + 15) & ~15;
+    const need = this.top - this.k.memory.buffer.byteLength;
+    if (need > 0) this.k.memory.grow(Math.ceil(need / 65536));
+    return at;
+  }
+
+  f64(ptr: number, length: number): Float64Array {
+    return new Float64Array(this.k.memory.buffer, ptr, length);
+  }
+
+  i32(ptr: number, length: number): Int32Array {
+    return new Int32Array(this.k.memory.buffer, ptr, length);
+  }
+}

@@ -1,0 +1,93 @@
+/**
+ * The real-space kernels of realSpace.ts run in WebAssembly (SIMD, two pairs per step): same pair terms,
+ * same kernel table. One context per setup (per thread): sorted particles (as SoA), cell offsets, stencil
+ * and table are copied into the instance's memory once; all-particle sums accumulate there until collected.
+ */
+import { type Box } from '../box';
+import { type CellList } from '../ewald/cellList';
+import { type RealSpaceKernel } from '../ewald/realSpace';
+import { WasmArena, kernelInstance } from './module';
+
+export interface RealSpaceWasm {
+  /** Symmetric all-particle sums over cells [cellBegin, cellEnd), kept inside the context. */
+  allChunk(cellBegin: number, cellEnd: number): void;
+  /** Adds the kept sums into accSorted (3N, sorted order) and phiSorted (N), then clears them. */
+  allCollect(accSorted: Float64Array, phiSorted: Float64Array): void;
+  /** Per-target sums for targets[begin..end) (input rows), added into acc[3t..], phi[t]. */
+  targets(targets: Int32Array, begin: number, end: number, acc: Float64Array, phi: Float64Array): void;
+}
+
+const SOFT_KIND = { none: 0, plummer: 1, spline: 2 } as const;
+
+/** Creates the WebAssembly context, or null when WebAssembly SIMD is unavailable. */
+export function realSpaceWasmCreate(cells: CellList, box: Box, k: RealSpaceKernel): RealSpaceWasm | null {
+  const w = kernelInstance();
+  if (!w) return null;
+  const x = w as unknown as Record<string, (...a: number[]) => void>;
+  const arena = new WasmArena(w);
+  const n = cells.order.length;
+  const nCells = cells.start.length - 1;
+  const pad = 16;
+  const soa = [0, 1, 2, 3].map((c) => {
+    const p = arena.alloc(8 * n + pad);
+    const v = arena.f64(p, n);
+    for (let s = 0; s < n; s++) v[s] = cells.xyzm[4 * s + c];
+    return p;
+  });
+  const acc = [0, 1, 2, 3].map(() => arena.alloc(8 * n + pad));
+  const pStart = arena.alloc(4 * (nCells + 1));
+  arena.i32(pStart, nCells + 1).set(cells.start);
+  const pStencil = arena.alloc(4 * cells.stencil.length);
+  arena.i32(pStencil, cells.stencil.length).set(cells.stencil);
+  const pTable = arena.alloc(8 * k.table.coef.length);
+  arena.f64(pTable, k.table.coef.length).set(k.table.coef);
+  const softLen = k.softening.kind === 'plummer' ? k.softening.eps : k.softening.kind === 'spline' ? k.softening.h : 0;
+  const setKernel = () =>
+    x.setKernel(k.alpha, k.rCut, k.rSoft, k.table.perUnit, k.table.uMax, pTable, SOFT_KIND[k.softening.kind], softLen);
+  const [nx, ny, nz] = cells.n;
+  let tslotRef: Int32Array | null = null;
+  let pTslot = 0;
+  let pOut = 0, pPhi = 0, cap = 0;
+  return {
+    allChunk(cellBegin, cellEnd) {
+      setKernel();
+      x.realSpaceAll(cellBegin, cellEnd, nx, ny, nz, box.lx, box.ly, box.lz, pStart, pStencil, cells.halfCount, ...soa, ...acc);
+    },
+    allCollect(accSorted, phiSorted) {
+      const [ax, ay, az, ph] = acc.map((p) => arena.f64(p, n));
+      for (let s = 0; s < n; s++) {
+        accSorted[3 * s] += ax[s];
+        accSorted[3 * s + 1] += ay[s];
+        accSorted[3 * s + 2] += az[s];
+        phiSorted[s] += ph[s];
+      }
+      for (const a of [ax, ay, az, ph]) a.fill(0);
+    },
+    targets(targets, begin, end, out, phi) {
+      setKernel();
+      if (tslotRef !== targets) {
+        pTslot = arena.alloc(4 * targets.length);
+        const ts = arena.i32(pTslot, targets.length);
+        for (let t = 0; t < targets.length; t++) ts[t] = cells.slot[targets[t]];
+        tslotRef = targets;
+      }
+      const m = end - begin;
+      if (m > cap) {
+        cap = Math.max(m, 256);
+        pOut = arena.alloc(8 * 3 * cap);
+        pPhi = arena.alloc(8 * cap);
+      }
+      arena.f64(pOut, 3 * m).fill(0);
+      arena.f64(pPhi, m).fill(0);
+      x.realSpaceTargets(pTslot, begin, end, nx, ny, nz, box.lx, box.ly, box.lz, cells.w[0], cells.w[1], cells.w[2],
+        pStart, pStencil, cells.stencil.length / 3, ...soa, pOut, pPhi);
+      const a = arena.f64(pOut, 3 * m), p = arena.f64(pPhi, m);
+      for (let t = 0; t < m; t++) {
+        out[3 * (begin + t)] += a[3 * t];
+        out[3 * (begin + t) + 1] += a[3 * t + 1];
+        out[3 * (begin + t) + 2] += a[3 * t + 2];
+        phi[begin + t] += p[t];
+      }
+    },
+  };
+}

@@ -1,0 +1,173 @@
+#!/usr/bin/env node
+// Browser tests: builds the web app, serves dist/ with `vite preview` (one process, stopped at the end),
+// drives Debian's chromium through playwright-core, runs every test exported by tests/e2e/*.mjs and
+// prints "e2e: N passed, M failed". Each test module exports `tests`: { 'name': async (page, baseUrl) => {} }.
+// For every test the runner also fails on console errors, uncaught page errors and any request that
+// leaves the page's origin. Screenshots go to test-results/.
+import { spawn } from 'node:child_process';
+import { mkdirSync, mkdtempSync, readdirSync, rmSync } from 'node:fs';
+import { createServer } from 'node:net';
+import { tmpdir } from 'node:os';
+import { dirname, join, resolve } from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+
+const root = resolve(dirname(fileURLToPath(import.meta.url)), '..');
+process.chdir(root);
+const resultsDir = join(root, 'test-results');
+mkdirSync(resultsDir, { recursive: true });
+const only = process.argv[2] ?? '';
+const TEST_TIMEOUT_MS = 45_000;
+
+const t0 = Date.now();
+const log = (msg) => console.log(`[e2e ${((Date.now() - t0) / 1000).toFixed(1)}s] ${msg}`);
+
+function freePort() {
+  return new Promise((res, rej) => {
+    const s = createServer();
+    s.unref();
+    s.on('error', rej);
+    s.listen(0, '127.0.0.1', () => {
+      const { port } = s.address();
+      s.close(() => res(port));
+    });
+  });
+}
+
+async function waitForServer(url, child, ms = 20_000) {
+  const end = Date.now() + ms;
+  while (Date.now() < end) {
+    if (child.exitCode !== null) throw new Error(`vite preview exited early with code ${child.exitCode}`);
+    try {
+      const r = await fetch(url);
+      if (r.ok) return;
+    } catch {
+      /* not up yet */
+    }
+    await new Promise((r) => setTimeout(r, 100));
+  }
+  throw new Error(`vite preview did not answer at ${url} within ${ms} ms`);
+}
+
+function stopProcess(child) {
+  if (!child || child.exitCode !== null) return Promise.resolve();
+  return new Promise((res) => {
+    const timer = setTimeout(() => {
+      child.kill('SIGKILL');
+    }, 3000);
+    child.once('exit', () => {
+      clearTimeout(timer);
+      res();
+    });
+    child.kill('SIGTERM');
+  });
+}
+
+function withTimeout(promise, ms, what) {
+  let timer;
+  return Promise.race([
+    promise.finally(() => clearTimeout(timer)),
+    new Promise((_, rej) => {
+      timer = setTimeout(() => rej(new Error(`${what} timed out after ${ms / 1000} s`)), ms);
+    }),
+  ]);
+}
+
+/** Records what a page does that no test should allow: console errors, page errors, foreign requests. */
+function pageWatch(page, origin) {
+  const problems = [];
+  page.on('console', (m) => {
+    if (m.type() === 'error') problems.push(`console error: ${m.text()}`);
+  });
+  page.on('pageerror', (e) => problems.push(`uncaught page error: ${e.message}`));
+  const onRequest = (req) => {
+    const url = req.url();
+    if (url.startsWith('data:') || url.startsWith('blob:')) return;
+    if (new URL(url).origin !== origin) problems.push(`request left the origin: ${url}`);
+  };
+  page.on('request', onRequest);
+  page.on('worker', (w) => {
+    if (new URL(w.url()).origin !== origin && !w.url().startsWith('blob:')) problems.push(`worker from another origin: ${w.url()}`);
+  });
+  return problems;
+}
+
+function slug(s) {
+  return s.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '').slice(0, 40).replace(/-$/, '');
+}
+
+let server = null;
+let ctx = null;
+let profileDir = null;
+let passed = 0;
+let failed = 0;
+try {
+  log('building (vite build)');
+  const { build } = await import('vite');
+  await build({ configFile: join(root, 'vite.config.ts'), logLevel: 'warn' });
+
+  const port = await freePort();
+  const baseUrl = `http://127.0.0.1:${port}/`;
+  server = spawn(join(root, 'node_modules/.bin/vite'), ['preview', '--host', '127.0.0.1', '--port', String(port), '--strictPort'], {
+    cwd: root,
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  let serverLog = '';
+  server.stdout.on('data', (d) => (serverLog += d));
+  server.stderr.on('data', (d) => (serverLog += d));
+  try {
+    await waitForServer(baseUrl, server);
+  } catch (e) {
+    console.log(serverLog);
+    throw e;
+  }
+  log(`preview server (pid ${server.pid}) at ${baseUrl}`);
+
+  const { chromium } = await import('playwright-core');
+  profileDir = mkdtempSync(join(tmpdir(), 'e2e-'));
+  ctx = await chromium.launchPersistentContext(profileDir, {
+    executablePath: '/usr/bin/chromium',
+    headless: true,
+    acceptDownloads: true,
+    viewport: { width: 1280, height: 900 },
+    args: [
+      '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run',
+      '--disable-background-networking', '--disable-component-update',
+      '--disable-sync', '--enable-unsafe-swiftshader',
+    ],
+  });
+  log('chromium started');
+
+  const files = readdirSync(join(root, 'tests/e2e')).filter((f) => f.endsWith('.mjs') && !f.startsWith('_')).sort();
+  for (const file of files) {
+    const mod = await import(pathToFileURL(join(root, 'tests/e2e', file)).href);
+    for (const [name, run] of Object.entries(mod.tests ?? {})) {
+      if (only && !`${file} ${name}`.includes(only)) continue;
+      const page = await ctx.newPage();
+      const problems = pageWatch(page, new URL(baseUrl).origin);
+      const shot = join(resultsDir, `e2e-${slug(file.replace(/\.mjs$/, ''))}-${slug(name)}.png`);
+      const started = Date.now();
+      try {
+        await withTimeout(run(page, baseUrl, { screenshot: (suffix) => page.screenshot({ path: shot.replace(/\.png$/, `-${suffix}.png`), fullPage: true }), log }), TEST_TIMEOUT_MS, name);
+        if (problems.length) throw new Error(problems.join('\n  '));
+        passed++;
+        log(`ok   ${file} › ${name} (${((Date.now() - started) / 1000).toFixed(1)} s)`);
+      } catch (e) {
+        failed++;
+        log(`FAIL ${file} › ${name}\n  ${e instanceof Error ? e.message : e}`);
+        if (problems.length) log(`  page problems:\n  ${problems.join('\n  ')}`);
+      }
+      await page.screenshot({ path: shot, fullPage: true }).catch(() => {});
+      await page.close().catch(() => {});
+    }
+  }
+} catch (e) {
+  failed++;
+  console.log(`e2e setup failed: ${e instanceof Error ? e.stack : e}`);
+} finally {
+  await ctx?.close().catch(() => {});
+  await stopProcess(server);
+  if (profileDir) rmSync(profileDir, { recursive: true, force: true });
+}
+if (passed + failed === 0) failed = 1; // a run that tested nothing is a failure
+console.log(`e2e: ${passed} passed, ${failed} failed`);
+process.exit(failed === 0 ? 0 : 1);
