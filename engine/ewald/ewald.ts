@@ -277,8 +277,14 @@ export function ewaldForces(
   const tg = targets ?? Int32Array.from({ length: n }, (_, i) => i);
   const all = isAll(tg, n);
   const setup = ewaldSetup(positions, masses, box, options, all ? n : tg.length);
-  const weighted = ewaldWeighStructureFactor(setup, ewaldStructureFactor(setup));
-  onProgress?.(0.25);
+  const sf = new Float64Array(2 * setup.kspace.count);
+  const sourceStep = Math.max(1024, Math.ceil(n / 8));
+  for (let b = 0; b < n; b += sourceStep) {
+    const part = ewaldStructureFactor(setup, b, Math.min(n, b + sourceStep));
+    for (let k = 0; k < sf.length; k++) sf[k] += part[k];
+    onProgress?.((0.25 * Math.min(n, b + sourceStep)) / n);
+  }
+  const weighted = ewaldWeighStructureFactor(setup, sf);
   const acc = new Float64Array(3 * tg.length);
   const phi = new Float64Array(tg.length);
   const chunk = 256;

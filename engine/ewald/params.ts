@@ -42,7 +42,11 @@ export interface EwaldParams {
   /** Cells per side of the real-space cell list and the number of stencil cells. */
   readonly cells: [number, number, number];
   readonly stencilCells: number;
-  /** Predicted rms acceleration errors (acceleration units): real, Fourier, softening tail, total. */
+  /**
+   * Predicted rms acceleration errors (acceleration units): real, Fourier, total (with the clustering
+   * margin); softeningTailError is the rms size of the Plummer correction beyond rSoft, which the
+   * reference leaves out by definition (0 for other kernels).
+   */
   readonly realSpaceError: number;
   readonly fourierError: number;
   readonly softeningTailError: number;
@@ -54,12 +58,16 @@ export interface EwaldParams {
   readonly clustering: number;
 }
 
-// Cost model (ns), from `npm run bench` on the project machine: a real-space pair visited once
-// (symmetric) or per target, a candidate pair rejected by distance, one particle × one k-vector per pass.
-const COST_PAIR_SYM = 5.5;
-const COST_PAIR = 4.5;
+// Cost model (ns, WebAssembly kernels, measured with the phase timings of scripts/bench on the
+// project machine): a real-space pair term in the symmetric all-particle loop (both particles updated,
+// candidate overhead included) or in the per-target loop, and one particle × one k-vector per pass.
+// Only the ratios matter. The cell-grid choice uses its own candidate/cell costs.
+const COST_PAIR_SYM = 14;
+const COST_PAIR = 9;
 const COST_CANDIDATE = 1.2;
-const COST_K = 1.3;
+const COST_K = 1.05;
+// Divides the error budget; with it the predicted rms error sits a factor 3 below tol·scale.
+const SAFETY = 3;
 
 /** Solves 2·A·√(s/x)·e^{−x²} = eps for x ≥ 0.5 (the shape of both Kolafa–Perram estimates). */
 function solveGaussianTail(pref: number, eps: number): number {
@@ -180,16 +188,15 @@ export function ewaldParamsChoose(
   if (Q === 0) Q = 1e-300;
   const clustering = clusteringFactor(positions, box);
   const scale = accelerationScale(G, masses, V);
-  const budget = (tol * scale) / Math.sqrt(clustering);
-  const parts = softening.kind === 'plummer' ? 3 : 2;
-  const eps = budget / Math.sqrt(parts);
+  // Safety factor 3 and the clustering margin c^{1/4}: measured on uniform and clumped snapshots, the
+  // largest per-particle error then stays below tol (see DEVELOPERS.md, "Error estimates").
+  const budget = (tol * scale) / (SAFETY * Math.pow(clustering, 0.25));
+  const eps = budget / Math.SQRT2;
 
-  let rSoft = softeningSupport(softening);
-  if (softening.kind === 'plummer') {
-    // R from plummerTailError(R) = eps, and at least 10 ε.
-    const R = Math.pow((G * G * (Q / V) * 9 * Math.PI * softening.eps ** 4) / (5 * eps * eps), 1 / 5);
-    rSoft = Math.max(R, 10 * softening.eps);
-  }
+  // Plummer is never Newtonian: by convention its correction (f_P − 1/r³) is applied to every pair image
+  // closer than half the shortest side (the minimum-image sphere), as a code with Plummer-softened
+  // direct interactions and point-mass periodic images does; the omitted tail is reported, not hidden.
+  const rSoft = softening.kind === 'plummer' ? Math.min(...sides) / 2 : softeningSupport(softening);
 
   const rFor = (alpha: number) => solveGaussianTail(G * Math.sqrt((Q * alpha) / V), eps) / alpha;
   const kFor = (alpha: number) => 2 * alpha * solveGaussianTail(G * Math.sqrt((Q * alpha) / V), eps);
@@ -201,9 +208,8 @@ export function ewaldParamsChoose(
     const rl = Math.max(rc, rSoft);
     const pairs = targetCount * ((4 * Math.PI) / 3) * rl ** 3 * density;
     const real = symmetric ? 0.5 * pairs * COST_PAIR_SYM : pairs * COST_PAIR;
-    const cand = pairs * COST_CANDIDATE * 1.5;
     const kk = (n + targetCount) * kVectorCount(kc, V) * COST_K;
-    return real + cand + kk;
+    return real + kk;
   };
   let alpha = options.alpha ?? 0;
   if (!options.alpha) {
@@ -227,7 +233,7 @@ export function ewaldParamsChoose(
   const realSpaceError = ewaldRealSpaceError(G, Q, V, alpha, rCut);
   const fourierError = ewaldFourierError(G, Q, V, alpha, kCut);
   const softeningTailError = softening.kind === 'plummer' ? plummerTailError(G, Q, V, softening.eps, rSoft) : 0;
-  const predictedRmsError = Math.sqrt(clustering) * Math.hypot(realSpaceError, fourierError, softeningTailError);
+  const predictedRmsError = Math.pow(clustering, 0.25) * Math.hypot(realSpaceError, fourierError);
   const hMax = sides.map((l) => Math.floor((kCut * l) / (2 * Math.PI) + 1e-12)) as [number, number, number];
   const rLoop = Math.max(rCut, rSoft);
   const grid = cellGridChoose(box, n, rLoop);

@@ -51,7 +51,7 @@ export function realSpaceWasmCreate(cells: CellList, box: Box, k: RealSpaceKerne
   return {
     allChunk(cellBegin, cellEnd) {
       setKernel();
-      x.realSpaceAll(cellBegin, cellEnd, nx, ny, nz, box.lx, box.ly, box.lz, pStart, pStencil, cells.halfCount, ...soa, ...acc);
+      x.realSpaceAll(cellBegin, cellEnd, nx, ny, nz, box.lx, box.ly, box.lz, cells.w[0], cells.w[1], cells.w[2], pStart, pStencil, cells.halfCount, ...soa, ...acc);
     },
     allCollect(accSorted, phiSorted) {
       const [ax, ay, az, ph] = acc.map((p) => arena.f64(p, n));

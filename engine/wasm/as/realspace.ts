@@ -202,6 +202,14 @@ let vPp: v128 = f64x2.splat(0);
   return f64x2.extract_lane(v, 0) + f64x2.extract_lane(v, 1);
 }
 
+// Squared distance from a point to the box [bx, bx+wx]×[by, by+wy]×[bz, bz+wz].
+@inline function boxDistance2(x: f64, y: f64, z: f64, bx: f64, by: f64, bz: f64, wx: f64, wy: f64, wz: f64): f64 {
+  const dx = max(0.0, max(bx - x, x - bx - wx));
+  const dy = max(0.0, max(by - y, y - by - wy));
+  const dz = max(0.0, max(bz - z, z - bz - wz));
+  return dx * dx + dy * dy + dz * dz;
+}
+
 @inline function floorDiv(a: i32, b: i32): i32 {
   return <i32>Math.floor(<f64>a / <f64>b);
 }
@@ -213,7 +221,7 @@ let vPp: v128 = f64x2.splat(0);
  */
 export function realSpaceAll(
   cellBegin: i32, cellEnd: i32, nx: i32, ny: i32, nz: i32, lx: f64, ly: f64, lz: f64,
-  start: usize, stencil: usize, halfCount: i32,
+  wx: f64, wy: f64, wz: f64, start: usize, stencil: usize, halfCount: i32,
   xs: usize, ys: usize, zs: usize, ms: usize, ax: usize, ay: usize, az: usize, ph: usize,
 ): void {
   for (let cell0 = cellBegin; cell0 < cellEnd; cell0++) {
@@ -225,6 +233,8 @@ export function realSpaceAll(
     for (let q = 0; q < halfCount; q++) {
       const so = stencil + <usize>(12 * q);
       let ix = cx + load<i32>(so), iy = cy + load<i32>(so, 4), iz = cz + load<i32>(so, 8);
+      // Neighbour cell's lower corner in the unwrapped frame (for per-particle pruning).
+      const bx = <f64>ix * wx, by = <f64>iy * wy, bz = <f64>iz * wz;
       let sx: f64 = 0, sy: f64 = 0, sz: f64 = 0;
       if (ix < 0 || ix >= nx) { const f = floorDiv(ix, nx); ix -= f * nx; sx = <f64>f * lx; }
       if (iy < 0 || iy >= ny) { const f = floorDiv(iy, ny); iy -= f * ny; sy = <f64>f * ly; }
@@ -234,6 +244,7 @@ export function realSpaceAll(
       if (j0 == j1) continue;
       for (let i = i0; i < i1; i++) {
         const io = <usize>i << 3;
+        if (q != 0 && boxDistance2(load<f64>(xs + io), load<f64>(ys + io), load<f64>(zs + io), bx, by, bz, wx, wy, wz) >= gRl2) continue;
         const mi = load<f64>(ms + io);
         vAx = f64x2.splat(0); vAy = f64x2.splat(0); vAz = f64x2.splat(0); vPp = f64x2.splat(0);
         pairRun(load<f64>(xs + io) - sx, load<f64>(ys + io) - sy, load<f64>(zs + io) - sz, mi, true,
@@ -271,6 +282,7 @@ export function realSpaceTargets(
     for (let q = 0; q < nStencil; q++) {
       const so = stencil + <usize>(12 * q);
       let ix = cx + load<i32>(so), iy = cy + load<i32>(so, 4), iz = cz + load<i32>(so, 8);
+      if (q != 0 && boxDistance2(x, y, z, <f64>ix * wx, <f64>iy * wy, <f64>iz * wz, wx, wy, wz) >= gRl2) continue;
       let px = x, py = y, pz = z;
       if (ix < 0 || ix >= nx) { const f = floorDiv(ix, nx); ix -= f * nx; px -= <f64>f * lx; }
       if (iy < 0 || iy >= ny) { const f = floorDiv(iy, ny); iy -= f * ny; py -= <f64>f * ly; }
