@@ -6,3 +6,4 @@ export * from './util/random';
 export * from './special/erf';
 export * from './ewald/index';
 export * from './demo/demoSnapshot';
+export * from './formats/index';

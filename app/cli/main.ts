@@ -1,3 +1,5 @@
-// Placeholder entry; the command line is being written (see app/cli/).
-import { ewaldForcesThreads } from './parallelEwald';
-export { ewaldForcesThreads };
+// Entry point of the `torusgrav` command line (bundled to dist-cli/torusgrav.mjs; see bin/torusgrav.mjs).
+import { cliRun } from './cliRun';
+import { processIo } from './cliIo';
+
+process.exitCode = await cliRun(process.argv.slice(2), processIo());

@@ -107,14 +107,21 @@ export async function ewaldForcesThreads(
   if (threads <= 1 || n < 2048) return ewaldForces(positions, masses, box, targets, options, onProgress);
   const tg = targets ?? Int32Array.from({ length: n }, (_, i) => i);
   const all = tg.length === n && tg.every((v, i) => v === i);
-  // Parameters are chosen once here and pinned, so every worker builds the identical setup.
-  const setup = ewaldSetup(positions, masses, box, options, all ? n : tg.length);
+  // Workers start loading while the parameters are chosen here; they are pinned so that every worker
+  // builds the identical setup.
+  const pool = new Pool(threads, workerUrl);
+  let setup;
+  try {
+    setup = ewaldSetup(positions, masses, box, options, all ? n : tg.length);
+  } catch (e) {
+    await pool.close();
+    throw e;
+  }
   const p = setup.params;
   const pinned: EwaldOptions = { ...options, alpha: p.alpha, rCut: p.rCut, kCut: p.kCut };
   const K = tg.length;
   const accBuf = new SharedArrayBuffer(8 * 3 * K);
   const phiBuf = new SharedArrayBuffer(8 * K);
-  const pool = new Pool(threads, workerUrl);
   try {
     const posBuf = shared(setup.positions);
     const massBuf = shared(masses);

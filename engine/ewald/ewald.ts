@@ -67,16 +67,24 @@ function validateArrays(positions: Float64Array, masses: Float64Array): void {
   }
 }
 
-/** Finds two particles at exactly the same (wrapped) position; returns their input rows or null. */
+/**
+ * Finds two particles at exactly the same (wrapped) position; returns their input rows (smaller first) or
+ * null. Sorts each cell's slots by x, then compares neighbours in that order: O(N log N) overall.
+ */
 export function cellListFindCoincident(cells: CellList): [number, number] | null {
   const { start, xyzm, order } = cells;
+  const idx: number[] = [];
   for (let c = 0; c + 1 < start.length; c++) {
-    for (let i = start[c]; i < start[c + 1]; i++) {
-      for (let j = i + 1; j < start[c + 1]; j++) {
-        if (xyzm[4 * i] === xyzm[4 * j] && xyzm[4 * i + 1] === xyzm[4 * j + 1] && xyzm[4 * i + 2] === xyzm[4 * j + 2]) {
-          const a = order[i], b = order[j];
-          return a < b ? [a, b] : [b, a];
-        }
+    const a = start[c], b = start[c + 1];
+    if (b - a < 2) continue;
+    idx.length = 0;
+    for (let i = a; i < b; i++) idx.push(i);
+    idx.sort((p, q) => xyzm[4 * p] - xyzm[4 * q] || xyzm[4 * p + 1] - xyzm[4 * q + 1] || xyzm[4 * p + 2] - xyzm[4 * q + 2]);
+    for (let k = 1; k < idx.length; k++) {
+      const p = idx[k - 1], q = idx[k];
+      if (xyzm[4 * p] === xyzm[4 * q] && xyzm[4 * p + 1] === xyzm[4 * q + 1] && xyzm[4 * p + 2] === xyzm[4 * q + 2]) {
+        const u = order[p], v = order[q];
+        return u < v ? [u, v] : [v, u];
       }
     }
   }

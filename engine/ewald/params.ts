@@ -66,8 +66,11 @@ const COST_PAIR_SYM = 14;
 const COST_PAIR = 9;
 const COST_CANDIDATE = 1.2;
 const COST_K = 1.05;
-// Divides the error budget; with it the predicted rms error sits a factor 3 below tol·scale.
-const SAFETY = 3;
+// Divides the error budget. The estimates are rms figures; the tolerance is a promise about the worst
+// particle, whose |a| and error both fluctuate. Measured without it (largest error over all particles /
+// tol, demo and uniform snapshots, N = 512 … 16384): up to 6.5; with 8·c^{1/4} every case measured had a
+// margin of at least 1.8 (tests/engine/tolerance.test.ts keeps checking it).
+const SAFETY = 8;
 
 /** Solves 2·A·√(s/x)·e^{−x²} = eps for x ≥ 0.5 (the shape of both Kolafa–Perram estimates). */
 function solveGaussianTail(pref: number, eps: number): number {
@@ -188,8 +191,7 @@ export function ewaldParamsChoose(
   if (Q === 0) Q = 1e-300;
   const clustering = clusteringFactor(positions, box);
   const scale = accelerationScale(G, masses, V);
-  // Safety factor 3 and the clustering margin c^{1/4}: measured on uniform and clumped snapshots, the
-  // largest per-particle error then stays below tol (see DEVELOPERS.md, "Error estimates").
+  // Safety factor and the clustering margin c^{1/4} (see SAFETY and DEVELOPERS.md, "Error estimates").
   const budget = (tol * scale) / (SAFETY * Math.pow(clustering, 0.25));
   const eps = budget / Math.SQRT2;
 

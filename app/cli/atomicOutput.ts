@@ -1,0 +1,93 @@
+/**
+ * Output files appear whole or not at all: text goes to a temporary file in the destination folder,
+ * which is renamed over the destination at the end and removed on any failure, on Ctrl-C (SIGINT),
+ * SIGTERM and SIGHUP, and at exit. An existing destination is untouched until the rename.
+ */
+import { accessSync, constants, statSync, unlinkSync } from 'node:fs';
+import { open, rename, unlink } from 'node:fs/promises';
+import { basename, dirname, join, resolve } from 'node:path';
+import { CliError } from './cliErrors';
+
+const pending = new Set<string>();
+const SIGNALS = ['SIGINT', 'SIGTERM', 'SIGHUP'] as const;
+let exitHookInstalled = false;
+
+function removePendingSync(): void {
+  for (const p of pending) {
+    try {
+      unlinkSync(p);
+    } catch {
+      // already gone
+    }
+  }
+  pending.clear();
+}
+
+function onSignal(signal: NodeJS.Signals): void {
+  removePendingSync();
+  process.stderr.write(`torusgrav: interrupted (${signal}); no output written\n`);
+  for (const s of SIGNALS) process.removeListener(s, onSignal);
+  process.kill(process.pid, signal); // die of the signal itself, as the shell expects
+}
+
+function hooksInstall(): void {
+  if (!exitHookInstalled) {
+    process.on('exit', removePendingSync);
+    exitHookInstalled = true;
+  }
+  if (pending.size === 0) for (const s of SIGNALS) process.on(s, onSignal);
+}
+
+function hooksRemove(): void {
+  if (pending.size === 0) for (const s of SIGNALS) process.removeListener(s, onSignal);
+}
+
+/** Why a path cannot be an output file (folder missing, not writable, a folder itself), or null. */
+export function outputProblem(path: string): string | null {
+  const full = resolve(path);
+  const dir = dirname(full);
+  let dirStat;
+  try {
+    dirStat = statSync(dir);
+  } catch {
+    return `the folder ${dir} does not exist`;
+  }
+  if (!dirStat.isDirectory()) return `${dir} is not a folder`;
+  try {
+    accessSync(dir, constants.W_OK);
+  } catch {
+    return `the folder ${dir} is not writable`;
+  }
+  try {
+    if (statSync(full).isDirectory()) return `${path} is a folder`;
+  } catch {
+    // does not exist yet: fine
+  }
+  return null;
+}
+
+/** Writes the chunks to `path` atomically (temp file + rename); throws CliError (exit 2) on failure. */
+export async function outputWriteAtomic(path: string, chunks: Iterable<string>): Promise<void> {
+  const full = resolve(path);
+  const tmp = join(dirname(full), `.${basename(full)}.${process.pid}.${Math.random().toString(36).slice(2, 10)}.tmp`);
+  hooksInstall();
+  pending.add(tmp);
+  let handle: Awaited<ReturnType<typeof open>> | undefined;
+  try {
+    handle = await open(tmp, 'wx');
+    for (const chunk of chunks) await handle.write(chunk);
+    await handle.sync();
+    await handle.close();
+    handle = undefined;
+    await rename(tmp, full);
+    pending.delete(tmp);
+  } catch (e) {
+    await handle?.close().catch(() => undefined);
+    await unlink(tmp).catch(() => undefined);
+    pending.delete(tmp);
+    const code = (e as NodeJS.ErrnoException).code;
+    throw new CliError(`cannot write ${path}: ${code ? `${code} ` : ''}${e instanceof Error ? e.message : String(e)}`, 2);
+  } finally {
+    hooksRemove();
+  }
+}
