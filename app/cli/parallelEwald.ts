@@ -11,7 +11,9 @@ import {
   type EwaldResult,
   type Progress,
   ewaldFinalize,
+  ewaldRefineWeak,
   ewaldSetup,
+  ewaldTargetsValidate,
   ewaldUnsort,
   ewaldWeighStructureFactor,
 } from '../../engine/ewald/ewald';
@@ -106,6 +108,7 @@ export async function ewaldForcesThreads(
   const n = masses.length;
   if (threads <= 1 || n < 2048) return ewaldForces(positions, masses, box, targets, options, onProgress);
   const tg = targets ?? Int32Array.from({ length: n }, (_, i) => i);
+  ewaldTargetsValidate(tg, n);
   const all = tg.length === n && tg.every((v, i) => v === i);
   // Workers start loading while the parameters are chosen here; they are pinned so that every worker
   // builds the identical setup.
@@ -158,7 +161,8 @@ export async function ewaldForcesThreads(
     const accOut = Float64Array.from(acc);
     const phiOut = Float64Array.from(phi);
     ewaldFinalize(setup, tg, accOut, phiOut);
-    return { targets: tg, acc: accOut, phi: phiOut, params: setup.params, wrapped: setup.wrapped };
+    const refined = ewaldRefineWeak(positions, masses, box, tg, accOut, phiOut, setup.params, options);
+    return { targets: tg, acc: accOut, phi: phiOut, params: setup.params, wrapped: setup.wrapped, refined };
   } finally {
     await pool.close();
   }

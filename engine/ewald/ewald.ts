@@ -7,7 +7,7 @@
  * ewaldSetup → ewaldStructureFactor (ranges of sources, summed) → ewaldTargetsChunk or
  * ewaldAllRealChunk + ewaldFourierChunk → ewaldFinalize. ewaldForces runs them all on one thread.
  */
-import { type Box, boxVolume, positionsWrap } from '../box';
+import { type Box, boxMake, boxVolume, positionsWrap } from '../box';
 import { type CellList, cellListBuild } from './cellList';
 import { type KernelTable, kernelTableBuild } from './kernelTable';
 import { type KSpace, kSpaceBuild, kSpaceStructureFactor, kSpaceTargets, kSpaceWeigh } from './kSpace';
@@ -102,6 +102,7 @@ export function ewaldSetup(
   options: EwaldOptions = {},
   targetCount: number = masses.length,
 ): EwaldSetup {
+  boxMake(box.lx, box.ly, box.lz); // throws a RangeError naming a side that is not > 0
   validateArrays(positions, masses);
   const wrappedPositions = Float64Array.from(positions);
   const wrapped = positionsWrap(wrappedPositions, box);
@@ -258,10 +259,19 @@ export interface EwaldResult {
   readonly params: EwaldParams;
   /** Particles that lay outside the home cell and were wrapped. */
   readonly wrapped: number;
+  /** Weak-field particles recomputed at a tighter tolerance (see ewaldRefineWeak). */
+  readonly refined?: number;
 }
 
 /** Progress callback: fraction done in [0, 1]. */
 export type Progress = (fraction: number) => void;
+
+/** Throws an EngineInputError when a target row lies outside 0..n−1. */
+export function ewaldTargetsValidate(targets: Int32Array, n: number): void {
+  for (let t = 0; t < targets.length; t++) {
+    if (!(targets[t] >= 0 && targets[t] < n)) throw new EngineInputError(`target ${t} is row ${targets[t]}, outside 0..${n - 1}`, targets[t]);
+  }
+}
 
 function isAll(targets: Int32Array, n: number): boolean {
   if (targets.length !== n) return false;
@@ -270,7 +280,8 @@ function isAll(targets: Int32Array, n: number): boolean {
 }
 
 /**
- * Ewald accelerations and potentials on one thread for `targets` (input rows; null = all).
+ * Ewald accelerations and potentials on one thread for `targets` (input rows; null = all), then the
+ * weak-field refinement (ewaldRefineWeak) unless `refine` is false.
  * Positions: flat xyz in length units; masses in mass units; results in units with the given G.
  */
 export function ewaldForces(
@@ -280,9 +291,11 @@ export function ewaldForces(
   targets: Int32Array | null,
   options: EwaldOptions = {},
   onProgress?: Progress,
+  refine = true,
 ): EwaldResult {
   const n = masses.length;
   const tg = targets ?? Int32Array.from({ length: n }, (_, i) => i);
+  ewaldTargetsValidate(tg, n);
   const all = isAll(tg, n);
   const setup = ewaldSetup(positions, masses, box, options, all ? n : tg.length);
   const sf = new Float64Array(2 * setup.kspace.count);
@@ -316,7 +329,49 @@ export function ewaldForces(
     }
   }
   ewaldFinalize(setup, tg, acc, phi);
-  return { targets: tg, acc, phi, params: setup.params, wrapped: setup.wrapped };
+  const refined = refine ? ewaldRefineWeak(positions, masses, box, tg, acc, phi, setup.params, options) : 0;
+  return { targets: tg, acc, phi, params: setup.params, wrapped: setup.wrapped, refined };
+}
+
+/**
+ * A posteriori refinement. The parameters assume no |a| below params.accelerationScale; particles that
+ * came out weaker are recomputed (per-target mode) at tol·min|a|/scale (at least 1e-13) and replaced in
+ * acc/phi, so their relative error also stays below tol. Skipped when α, r_c or k_c were overridden.
+ * Returns the number of particles refined.
+ */
+export function ewaldRefineWeak(
+  positions: Float64Array,
+  masses: Float64Array,
+  box: Box,
+  targets: Int32Array,
+  acc: Float64Array,
+  phi: Float64Array,
+  params: EwaldParams,
+  options: EwaldOptions,
+): number {
+  if (options.alpha !== undefined || options.rCut !== undefined || options.kCut !== undefined) return 0;
+  const scale = params.accelerationScale;
+  const weak: number[] = [];
+  let aMin = Infinity;
+  for (let t = 0; t < targets.length; t++) {
+    const a = Math.hypot(acc[3 * t], acc[3 * t + 1], acc[3 * t + 2]);
+    if (a < scale) {
+      weak.push(t);
+      aMin = Math.min(aMin, a);
+    }
+  }
+  if (weak.length === 0) return 0;
+  const tol = Math.max(1e-13, (params.tol * aMin) / scale);
+  if (tol >= params.tol) return 0;
+  const sub = Int32Array.from(weak, (t) => targets[t]);
+  const r = ewaldForces(positions, masses, box, sub, { ...options, tol }, undefined, false);
+  weak.forEach((t, k) => {
+    acc[3 * t] = r.acc[3 * k];
+    acc[3 * t + 1] = r.acc[3 * k + 1];
+    acc[3 * t + 2] = r.acc[3 * k + 2];
+    phi[t] = r.phi[k];
+  });
+  return weak.length;
 }
 
 /**

@@ -40,7 +40,7 @@ function chebyshevMonomials(samples: number[]): number[] {
   return mono;
 }
 
-/** Builds the table on [0, uMax] with `perUnit` intervals per unit of u (default 32: error ≲ 1e-16). */
+/** Builds the table on [0, uMax] with `perUnit` intervals per unit of u (default 32: error ≈ 1e-15). */
 export function kernelTableBuild(uMax: number, perUnit = 32): KernelTable {
   if (!(uMax > 0) || !Number.isFinite(uMax)) throw new RangeError(`kernel table: uMax must be positive, got ${uMax}`);
   const intervals = Math.max(1, Math.ceil(uMax * perUnit)) + 1; // one spare interval for u == uMax

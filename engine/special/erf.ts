@@ -22,25 +22,17 @@ function erfSeriesFrom(x: number, n0: number): number {
   return TWO_OVER_SQRT_PI * Math.exp(-x2) * sum;
 }
 
-/** erfc(x) for x ≥ 2 by the continued fraction A&S 7.1.14, evaluated with the modified Lentz method. */
+/**
+ * erfc(x) for x ≥ 0.5 by the continued fraction A&S 7.1.14, evaluated backward from a fixed depth (more
+ * stable than forward evaluation near x = 0.5, where many terms are needed).
+ */
 function erfcContinuedFraction(x: number): number {
+  if (x === Infinity) return 0;
   // erfc(x) = e^{-x²}/√π · 1/(x + (1/2)/(x + 1/(x + (3/2)/(x + 2/(x + ...)))))
-  const tiny = 1e-300;
-  let f = x;
-  let c = x;
-  let d = 0;
-  for (let n = 1; n < 5000; n++) {
-    const a = n / 2;
-    d = x + a * d;
-    if (d === 0) d = tiny;
-    c = x + a / c;
-    if (c === 0) c = tiny;
-    d = 1 / d;
-    const delta = c * d;
-    f *= delta;
-    if (Math.abs(delta - 1) < 1e-16) break;
-  }
-  return Math.exp(-x * x) / (Math.sqrt(Math.PI) * f);
+  const depth = x < 1 ? 1200 : x < 2 ? 400 : x < 4 ? 120 : 60;
+  let t = x;
+  for (let n = depth; n >= 1; n--) t = x + n / 2 / t;
+  return Math.exp(-x * x) / (Math.sqrt(Math.PI) * t);
 }
 
 /** The error function erf(x). */
@@ -55,7 +47,7 @@ export function erf(x: number): number {
 export function erfc(x: number): number {
   if (Number.isNaN(x)) return NaN;
   if (x < 0) return 2 - erfc(-x);
-  if (x < 2) return 1 - erfSeriesFrom(x, 0);
+  if (x < 0.5) return 1 - erfSeriesFrom(x, 0);
   return erfcContinuedFraction(x);
 }
 
@@ -67,6 +59,9 @@ export function erfc(x: number): number {
 export function ewaldForceP(u: number): number {
   if (u === 0) return (2 / 3) * TWO_OVER_SQRT_PI;
   const x = Math.sqrt(u);
+  // Large u: the positive series would overflow (its terms peak near e^u); the closed form has no
+  // cancellation there since erf(x) ≈ 1.
+  if (x >= 3) return (1 - erfcContinuedFraction(x) - TWO_OVER_SQRT_PI * x * Math.exp(-u)) / (u * x);
   return erfSeriesFrom(x, 1) / (u * x);
 }
 
@@ -74,5 +69,6 @@ export function ewaldForceP(u: number): number {
 export function ewaldPotQ(u: number): number {
   if (u === 0) return TWO_OVER_SQRT_PI;
   const x = Math.sqrt(u);
+  if (x >= 3) return (1 - erfcContinuedFraction(x)) / x;
   return erfSeriesFrom(x, 0) / x;
 }
