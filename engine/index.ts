@@ -7,3 +7,4 @@ export * from './special/erf';
 export * from './ewald/index';
 export * from './demo/demoSnapshot';
 export * from './formats/index';
+export * from './orders/index';
