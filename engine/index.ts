@@ -8,3 +8,4 @@ export * from './ewald/index';
 export * from './demo/demoSnapshot';
 export * from './formats/index';
 export * from './orders/index';
+export * from './units';

@@ -9,7 +9,7 @@ const root = resolve(import.meta.dirname, '..');
 process.chdir(root);
 if (!existsSync('dist-cli/forceWorker.mjs')) execFileSync('npm', ['run', '--silent', 'build:cli'], { stdio: 'inherit' });
 mkdirSync('dist-bench', { recursive: true });
-const benches = ['ewaldBench', 'ordersBench'];
+const benches = ['ewaldBench', 'ordersBench', 'loadBench'];
 for (const name of benches) {
   await build({
     entryPoints: [`scripts/bench/${name}.ts`],
@@ -19,6 +19,7 @@ for (const name of benches) {
     target: 'node20',
     outfile: `dist-bench/${name}.mjs`,
     logLevel: 'warning',
+    external: ['h5wasm', 'h5wasm/node'],
   });
   const r = spawnSync(process.execPath, [`dist-bench/${name}.mjs`, ...process.argv.slice(2)], {
     stdio: 'inherit',

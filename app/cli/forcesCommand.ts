@@ -3,11 +3,12 @@
  * written as CSV id,ax,ay,az,phi. Reading, checking and writing only; the numerics are the engine's.
  */
 import { resolve } from 'node:path';
-import { type Box, positionsWrap } from '../../engine/box';
 import { EngineInputError } from '../../engine/ewald/ewald';
 import type { EwaldOptions } from '../../engine/ewald/params';
-import { csvChunks } from '../../engine/formats/csvWrite';
-import type { Snapshot } from '../../engine/formats/snapshot';
+import { type CsvColumn, csvChunks } from '../../engine/formats/csvWrite';
+import { type Snapshot, SnapshotFormatError } from '../../engine/formats/snapshot';
+import { snapshotPlace, snapshotValidate } from '../../engine/formats/validate';
+import type { Softening } from '../../engine/softening';
 import { targetsResolve } from '../../engine/targets';
 import { outputProblem, outputWriteAtomic } from './atomicOutput';
 import { CliError, UsageError } from './cliErrors';
@@ -22,28 +23,44 @@ import { forcesSummary } from './summary';
 const THREADED_MIN_PARTICLES = 2048;
 const COMMAND = FORCES_COMMAND;
 
-/** Refuses negative masses (one line naming file, row, column). */
-function massesCheck(snapshot: Snapshot, file: string): void {
-  const m = snapshot.masses;
-  for (let p = 0; p < m.length; p++) {
-    if (m[p] < 0) throw new CliError(`${file}: ${particlePlace(snapshot, p)}, column ${JSON.stringify(snapshot.massColumn ?? 'm')}: mass ${m[p]} is negative`);
+/** The one softening length of a --softening-column (all must be equal); none when all are 0. */
+function softeningFromColumn(snapshot: Snapshot, kind: 'plummer' | 'spline', file: string): Softening {
+  const e = snapshot.softening!;
+  let lo = 0;
+  let hi = 0;
+  for (let p = 0; p < e.length; p++) {
+    if (!(e[p] >= 0) || !Number.isFinite(e[p])) {
+      throw new SnapshotFormatError(file, `softening length ${e[p]} must be a finite number ≥ 0`, snapshotPlace(snapshot, p, 'softening'));
+    }
+    if (e[p] < e[lo]) lo = p;
+    if (e[p] > e[hi]) hi = p;
   }
+  if (e[lo] !== e[hi]) {
+    throw new CliError(
+      `${file}: the softening lengths (${snapshot.sources?.softening ?? 'softening column'}) vary from ${e[lo]} (${particlePlace(snapshot, lo)}) to ${e[hi]} (${particlePlace(snapshot, hi)}); ` +
+        `the periodic reference uses one length: give --softening ${kind}:LENGTH instead of --softening-column (e.g. the largest, ${e[hi]})`,
+    );
+  }
+  if (e[hi] === 0) return { kind: 'none' };
+  return kind === 'plummer' ? { kind, eps: e[hi] } : { kind, h: e[hi] };
 }
 
-/** How many particles lie outside the home cell, and the first of them. */
-function outsideCount(positions: Float64Array, box: Box): { count: number; first: number } {
-  const copy = positions.slice();
-  const count = positionsWrap(copy, box);
-  let first = -1;
-  if (count > 0) {
-    for (let i = 0; i < copy.length; i++) {
-      if (copy[i] !== positions[i]) {
-        first = Math.floor(i / 3);
-        break;
-      }
+/** |a_file − a|/|a| for each target (file accelerations in the snapshot's order, reference per target). */
+function relativeErrors(fileAcc: Float64Array, targets: Int32Array, acc: Float64Array): Float64Array {
+  const err = new Float64Array(targets.length);
+  for (let t = 0; t < targets.length; t++) {
+    const p = targets[t];
+    let num = 0;
+    let den = 0;
+    for (let d = 0; d < 3; d++) {
+      const r = acc[3 * t + d];
+      const diff = fileAcc[3 * p + d] - r;
+      num += diff * diff;
+      den += r * r;
     }
+    err[t] = den > 0 ? Math.sqrt(num / den) : num > 0 ? Infinity : 0;
   }
-  return { count, first };
+  return err;
 }
 
 /** Engine complaints about particles, pointed at the input rows. */
@@ -65,55 +82,64 @@ export async function forcesRun(argv: readonly string[], io: CliIo, helpText: ()
     io.stdout(helpText());
     return 0;
   }
-  const { file, out, box } = settings;
+  const { file, out } = settings;
   if (resolve(out) === resolve(file)) throw new UsageError(`--out ${out} is the input file; choose another name`, COMMAND);
   const problem = outputProblem(out);
   if (problem) throw new CliError(`--out ${out}: ${problem}`);
   const t0 = io.now();
-  const snapshot = await snapshotFileRead(file);
-  massesCheck(snapshot, file);
+  const snapshot = await snapshotFileRead(file, settings.mapping, {
+    maxBytes: settings.maxBytes,
+    every: settings.every,
+    limitAdvice: 'raise it with --max-size SIZE if the machine has the memory, or read every K-th particle with --every K',
+  });
+  const box = settings.box ?? snapshot.box!;
+  const softening = settings.softeningFromColumn ? softeningFromColumn(snapshot, settings.softeningFromColumn, file) : settings.softening;
+  const outside = snapshotValidate(snapshot, file, box, { softened: softening.kind !== 'none', coincident: false });
   const n = snapshot.count;
   const targets = targetsResolve(settings.targets, n);
   const all = targets.length === n && settings.targets.kind === 'all';
-  const outside = outsideCount(snapshot.positions, box);
-  const options: EwaldOptions = { G: settings.G, tol: settings.tol, softening: settings.softening };
+  const options: EwaldOptions = { G: settings.G, tol: settings.tol, softening };
   const progress = progressLine(io, `torusgrav: forces on ${targets.length} of ${n} particles`);
   const tRead = io.now();
   let result;
   try {
     result = await ewaldForcesThreads(snapshot.positions, snapshot.masses, box, all ? null : targets, options, settings.threads, progress.update);
   } catch (e) {
-    if (e instanceof EngineInputError) throw engineErrorExplain(e, snapshot, file, outside.count > 0);
+    if (e instanceof EngineInputError) throw engineErrorExplain(e, snapshot, file, outside.outside > 0);
     throw e;
   } finally {
     progress.done();
   }
   const tComputed = io.now();
   // Reported after the run so that a failing run still prints exactly one line.
-  if (outside.count > 0) {
+  if (outside.outside > 0) {
+    const k = outside.outside;
     io.stderr(
-      `torusgrav: warning: ${outside.count} of ${n} particle${n === 1 ? '' : 's'} ${outside.count === 1 ? 'lies' : 'lie'} outside the box ` +
-        `[0,${box.lx})x[0,${box.ly})x[0,${box.lz}) and ${outside.count === 1 ? 'was' : 'were'} wrapped into it ` +
-        `(the first: ${file} ${particlePlace(snapshot, outside.first)})\n`,
+      `torusgrav: warning: ${k} of ${n} particle${n === 1 ? '' : 's'} ${k === 1 ? 'lies' : 'lie'} outside the box ` +
+        `[0,${box.lx})x[0,${box.ly})x[0,${box.lz}) and ${k === 1 ? 'was' : 'were'} wrapped into it ` +
+        `(the first: ${file} ${particlePlace(snapshot, outside.firstOutside)})\n`,
     );
   }
   for (let t = 0; t < result.targets.length; t++) {
     const bad = !Number.isFinite(result.phi[t]) || !Number.isFinite(result.acc[3 * t]) || !Number.isFinite(result.acc[3 * t + 1]) || !Number.isFinite(result.acc[3 * t + 2]);
     if (bad) throw new CliError(`internal error: non-finite result for ${particlePlace(snapshot, result.targets[t])}; please report this with the input file`, 1);
   }
-  await outputWriteAtomic(
-    out,
-    csvChunks(
-      [
-        { name: 'id', values: result.targets, integer: true },
-        { name: 'ax', values: result.acc, stride: 3, offset: 0 },
-        { name: 'ay', values: result.acc, stride: 3, offset: 1 },
-        { name: 'az', values: result.acc, stride: 3, offset: 2 },
-        { name: 'phi', values: result.phi },
-      ],
-      result.targets.length,
-    ),
-  );
+  const every = snapshot.every ?? 1;
+  const ids: ArrayLike<number> = snapshot.ids
+    ? Float64Array.from(result.targets, (p) => snapshot.ids![p])
+    : every > 1
+      ? Float64Array.from(result.targets, (p) => p * every)
+      : result.targets;
+  const errors = snapshot.accelerations ? relativeErrors(snapshot.accelerations, result.targets, result.acc) : null;
+  const columns: CsvColumn[] = [
+    { name: 'id', values: ids, integer: true },
+    { name: 'ax', values: result.acc, stride: 3, offset: 0 },
+    { name: 'ay', values: result.acc, stride: 3, offset: 1 },
+    { name: 'az', values: result.acc, stride: 3, offset: 2 },
+    { name: 'phi', values: result.phi },
+    ...(errors ? [{ name: 'rel_err', values: errors }] : []),
+  ];
+  await outputWriteAtomic(out, csvChunks(columns, result.targets.length));
   const tEnd = io.now();
   io.stderr(
     forcesSummary({
@@ -121,6 +147,8 @@ export async function forcesRun(argv: readonly string[], io: CliIo, helpText: ()
       out,
       snapshot,
       settings,
+      box,
+      errors,
       params: result.params,
       targetCount: result.targets.length,
       threadsUsed: settings.threads <= 1 || n < THREADED_MIN_PARTICLES ? 1 : settings.threads,

@@ -2,51 +2,105 @@
  * The `torusgrav forces` command line: its options (for parsing and for help) and their checking.
  */
 import type { Box } from '../../engine/box';
+import { LOAD_LIMIT_BYTES } from '../../engine/formats/description';
+import type { ColumnMapping } from '../../engine/formats/snapshot';
 import type { Softening } from '../../engine/softening';
 import type { TargetSpec } from '../../engine/targets';
+import { UNIT_PRESETS, type UnitPreset, unitPresetFind } from '../../engine/units';
 import { type OptionSpec, argsParse } from './argParse';
 import { UsageError } from './cliErrors';
+import { mappingFromOptions, sizeParse } from './mappingOptions';
 import { boxParse, integerParse, positiveParse, softeningParse, targetsCountParse, tolParse } from './optionValues';
 import { defaultThreads } from './parallelEwald';
 
 export const FORCES_COMMAND = 'forces';
 const COMMAND = FORCES_COMMAND;
 
-export const FORCES_USAGE = 'torusgrav forces SNAPSHOT.csv --box L|Lx,Ly,Lz --out FILE.csv [options]';
+export const FORCES_USAGE = 'torusgrav forces SNAPSHOT --box L|Lx,Ly,Lz|@PATH --out FILE.csv [options]';
+
+/** G to 8 significant digits, in exponent form when very small or large. */
+function gText(G: number): string {
+  return G < 1e-3 || G >= 1e5 ? G.toExponential(7).replace(/\.?0+e/, 'e').replace('e+', 'e') : String(Number(G.toPrecision(8)));
+}
+
+const PRESETS = UNIT_PRESETS.map((u) => `  ${u.name} (${u.label}: G = ${gText(u.G)})`);
 
 export const FORCES_ABOUT = [
   'Exact periodic (Ewald) accelerations and potentials for every particle of a snapshot, or a subset.',
   '',
-  'Input: CSV with a header row naming the columns x, y, z and optionally m (or mass; without one every',
-  'particle has mass 1). Other columns are ignored; blank lines and lines starting with # are skipped.',
-  'Particles outside the box are wrapped into it (with a warning that says how many).',
-  'Output: CSV with header id,ax,ay,az,phi, where id is the 0-based particle (data row) of the input, and',
-  'numbers have 17 significant digits. Conventions: a = -grad phi points toward mass; phi = -G m/r near a',
-  'mass; the mean density is removed (zero-mean potential, no self-force), as in comoving simulations.',
+  'Input formats, told apart by content (then by name):',
+  '  text   comma, tab or whitespace separated (.csv .tsv .txt .dat, also .gz), with a header row naming',
+  '         the columns (or a # line right above the data, as numpy.savetxt writes); x, y, z and m (or',
+  '         mass) are found without options; blank lines and lines starting with # are skipped.',
+  '  .npy   one array: shape (N,3) is x,y,z; (N,4) is x,y,z,m; other shapes need --positions 0,1,2 etc.',
+  '         float32/float64 (or integers), either byte order, C or Fortran order.',
+  '  .npz   numpy.savez / savez_compressed: one array per field; N×3 arrays or x, y, z arrays are found',
+  '         by shape and name (pos, x, mass, m, …), or chosen with the options below.',
+  '  HDF5   every dataset is considered; an N×3 dataset or three N-long x, y, z datasets are proposed',
+  '         by shape and name, or chosen with the options below (dataset paths such as /bodies/pos).',
+  'Column/array options take SPEC = column names or 0-based numbers for text (x,y,z or 0,1,2), column',
+  'numbers for .npy, an array name for .npz (pos), a dataset path for HDF5 (/bodies/pos); NAME[k] picks',
+  'column k of a 2-D array (/bodies/pv[3]). Without a mass column every particle has mass 1.',
+  'Checks: NaN/Inf, zero or negative masses, mismatched array lengths, unreadable types (complex,',
+  'strings) and damaged files stop the run with one line naming the file and the place (line and column,',
+  'array or dataset); particles outside the box are wrapped into it (with a warning that says how many).',
+  'Files above the load limit (--max-size, default 1GiB of data) are refused unless subsampled (--every).',
+  '',
+  'Output: CSV with header id,ax,ay,az,phi (plus rel_err with --accelerations), where id is the particle\'s',
+  'id from --ids, else its 0-based particle (data row) of the input; numbers have 17 significant digits.',
+  'rel_err = |a_file - a|/|a|, the relative error of the file\'s accelerations against the reference.',
+  'Conventions: a = -grad phi points toward mass; phi = -G m/r near a mass; the mean density is removed',
+  '(zero-mean potential, no self-force), as in comoving simulations.',
+  '',
+  'Unit presets (--units), G derived from CODATA 2018 G, the IAU 2015 nominal GM☉, the au and the parsec:',
+  ...PRESETS,
+  'Lengths (positions, box, softening) and masses must be in the preset\'s units; codes that work in units',
+  'with h (Mpc/h, 1e10 M☉/h) use the same G.',
 ];
 
 export const FORCES_OPTIONS: readonly OptionSpec[] = [
-  { name: 'box', metavar: 'L | Lx,Ly,Lz', help: 'periodic box: one side (cube) or three sides, each > 0; home cell [0,Lx)x[0,Ly)x[0,Lz) (required)' },
+  {
+    name: 'box',
+    metavar: 'L | Lx,Ly,Lz | @PATH',
+    help: 'periodic box: one side (cube) or three sides, each > 0; home cell [0,Lx)x[0,Ly)x[0,Lz); or @PATH to read it from the file: an HDF5 dataset (@/header/box), an attribute (@/bodies#side; @/#BoxSize on the root group) or an .npz array (@box) holding one or three sides (required)',
+  },
   { name: 'out', metavar: 'FILE.csv', help: 'output file; written whole or not at all (an existing file stays untouched on failure) (required)' },
-  { name: 'G', metavar: 'g', help: 'gravitational constant, > 0', defaultText: '1' },
+  { name: 'positions', metavar: 'SPEC', help: 'where the positions are: three columns x,y,z (names or numbers) or one N×3 array/dataset', defaultText: 'text: x,y,z; binary: proposed by shape and name' },
+  { name: 'masses', metavar: 'SPEC | none', help: 'the mass column/array/dataset; none ignores any mass column (all masses 1)', defaultText: 'text: m or mass; binary: proposed by name' },
+  { name: 'accelerations', metavar: 'SPEC', help: "the code-under-test accelerations (x,y,z or one N×3 array/dataset), in the file's units: adds rel_err to the output and error percentiles to the report" },
+  { name: 'ids', metavar: 'SPEC', help: 'particle ids (integers) to write in the id column instead of row numbers' },
+  { name: 'softening-column', metavar: 'SPEC', help: 'per-particle softening lengths; with --softening plummer or spline naming the kernel. The reference uses one length: all must be equal' },
+  { name: 'units', metavar: 'PRESET', help: `units of the file, which set G: ${UNIT_PRESETS.map((u) => u.name).join(', ')} (see above)`, defaultText: 'G1, i.e. G = 1' },
+  { name: 'G', metavar: 'g', help: 'gravitational constant, > 0 (instead of --units)', defaultText: '1' },
   { name: 'tol', metavar: 'T', help: 'requested relative force error, strictly between 0 and 1: alpha, cutoffs and cells are chosen (Kolafa & Perram error estimates with a safety margin, more for clustered data) so that every particle\'s |a - a_exact|/|a_exact| stays below T', defaultText: '1e-6' },
   { name: 'targets', metavar: 'all|K', help: 'particles that get forces: all, or the first K data rows', defaultText: 'all' },
   { name: 'sample', metavar: 'K', help: 'instead of --targets: a seeded random subsample of K particles (ids sorted)' },
   { name: 'seed', metavar: 'S', help: 'integer seed of --sample; the same seed gives the same subsample', defaultText: '1' },
-  { name: 'softening', metavar: 'none|plummer:EPS|spline:H', help: 'softened pair force: Plummer length EPS, or cubic spline kernel with support H (box units)', defaultText: 'none' },
+  { name: 'softening', metavar: 'none|plummer:EPS|spline:H', help: 'softened pair force: Plummer length EPS, or cubic spline kernel with support H (box units); with --softening-column just plummer or spline', defaultText: 'none' },
   { name: 'threads', metavar: 'N', help: 'worker threads (runs under 2048 particles use one)', defaultText: 'all cores' },
+  { name: 'max-size', metavar: 'SIZE', help: 'load limit: the largest amount of file data read (uncompressed), e.g. 800MB, 4GiB; larger files are refused unless subsampled', defaultText: '1GiB' },
+  { name: 'every', metavar: 'K', help: 'read every K-th particle only (rows 0, K, 2K, …), masses multiplied by N/N_kept so the mean density stays; the limit then applies to 1/K of the data', defaultText: '1' },
   { name: 'help', help: 'show this help' },
 ];
 
 export interface ForcesSettings {
   readonly file: string;
   readonly out: string;
-  readonly box: Box;
+  /** The box, or null when it is read from the file (mapping.box). */
+  readonly box: Box | null;
   readonly G: number;
+  /** The unit preset named by --units, if any. */
+  readonly units: UnitPreset | null;
   readonly tol: number;
   readonly targets: TargetSpec;
+  /** Softening; for --softening-column, the kernel with a placeholder length fixed after loading. */
   readonly softening: Softening;
+  /** The kernel of --softening-column, or null. */
+  readonly softeningFromColumn: 'plummer' | 'spline' | null;
   readonly threads: number;
+  readonly mapping: ColumnMapping;
+  readonly maxBytes: number;
+  readonly every: number;
 }
 
 /** Checks the parsed command line and turns it into settings; UsageError names the faulty option. */
@@ -56,7 +110,7 @@ export function forcesSettings(argv: readonly string[]): ForcesSettings | 'help'
   if (positionals.length === 0) throw new UsageError('no snapshot file given', COMMAND);
   if (positionals.length > 1) throw new UsageError(`one snapshot file expected, got ${positionals.length}: ${positionals.join(' ')}`, COMMAND);
   const box = values.get('box');
-  if (box === undefined) throw new UsageError('--box is required (the periodic box side L, or Lx,Ly,Lz)', COMMAND);
+  if (box === undefined) throw new UsageError('--box is required (the periodic box side L, or Lx,Ly,Lz, or @PATH to read it from the file)', COMMAND);
   const out = values.get('out');
   if (out === undefined || out === '') throw new UsageError('--out FILE.csv is required', COMMAND);
   const sample = values.get('sample');
@@ -72,17 +126,42 @@ export function forcesSettings(argv: readonly string[]): ForcesSettings | 'help'
     if (k !== 'all') targets = { kind: 'first', count: k };
   }
   const G = values.get('G');
+  const unitsText = values.get('units');
   const tol = values.get('tol');
   const softening = values.get('softening');
   const threads = values.get('threads');
+  if (G !== undefined && unitsText !== undefined) throw new UsageError('give either --units or --G, not both (a preset sets G)', COMMAND);
+  let units: UnitPreset | null = null;
+  if (unitsText !== undefined) {
+    units = unitPresetFind(unitsText) ?? null;
+    if (!units) throw new UsageError(`--units: unknown preset ${JSON.stringify(unitsText)}; presets: ${UNIT_PRESETS.map((u) => u.name).join(', ')}`, COMMAND);
+  }
+  const mapping = mappingFromOptions(values, COMMAND);
+  let softeningFromColumn: 'plummer' | 'spline' | null = null;
+  let soft: Softening = { kind: 'none' };
+  if (mapping.softening !== undefined) {
+    const kind = softening?.trim().toLowerCase();
+    if (kind !== 'plummer' && kind !== 'spline') {
+      throw new UsageError('--softening-column needs --softening plummer or --softening spline (without a length): the kernel the lengths in the file belong to', COMMAND);
+    }
+    softeningFromColumn = kind;
+    soft = kind === 'plummer' ? { kind, eps: 1 } : { kind, h: 1 };
+  } else if (softening !== undefined) soft = softeningParse(softening, COMMAND);
+  const maxSize = values.get('max-size');
+  const every = values.get('every');
   return {
     file: positionals[0],
     out,
-    box: boxParse(box, COMMAND),
-    G: G === undefined ? 1 : positiveParse(G, 'G', COMMAND),
+    box: mapping.box !== undefined ? null : boxParse(box, COMMAND),
+    G: units ? units.G : G === undefined ? 1 : positiveParse(G, 'G', COMMAND),
+    units,
     tol: tol === undefined ? 1e-6 : tolParse(tol, COMMAND),
     targets,
-    softening: softening === undefined ? { kind: 'none' } : softeningParse(softening, COMMAND),
+    softening: soft,
+    softeningFromColumn,
     threads: threads === undefined ? defaultThreads() : integerParse(threads, 'threads', COMMAND, 1, 1024),
+    mapping,
+    maxBytes: maxSize === undefined ? LOAD_LIMIT_BYTES : sizeParse(maxSize, 'max-size', COMMAND),
+    every: every === undefined ? 1 : integerParse(every, 'every', COMMAND, 1, 2 ** 31 - 1),
   };
 }

@@ -1,6 +1,13 @@
-/** Reading a snapshot file from disk through the engine's format readers, with one-line errors. */
-import { readFileSync } from 'node:fs';
-import { snapshotRead } from '../../engine/formats/registry';
+/**
+ * Reading a snapshot file from disk through the engine's format readers: a ByteSource over an open
+ * file (read at offsets, so nothing holds the whole file), h5wasm/node for HDF5 (opens the path on the
+ * host file system), one-line errors.
+ */
+import { open, stat } from 'node:fs/promises';
+import { resolve } from 'node:path';
+import type { ByteSource } from '../../engine/formats/byteSource';
+import type { LoadOptions } from '../../engine/formats/description';
+import { snapshotLoad } from '../../engine/formats/registry';
 import type { ColumnMapping, Snapshot } from '../../engine/formats/snapshot';
 import { CliError } from './cliErrors';
 
@@ -8,25 +15,62 @@ const READ_ERRORS: Record<string, string> = {
   ENOENT: 'no such file',
   EISDIR: 'it is a folder, not a file',
   EACCES: 'permission denied',
-  ERR_FS_FILE_TOO_LARGE: 'the file is too large to read at once (over 2 GiB)',
 };
 
-/** The file's bytes; CliError (exit 2) naming the file when it cannot be read. */
-export function fileBytesRead(path: string): Uint8Array {
-  try {
-    return readFileSync(path);
-  } catch (e) {
-    const code = (e as NodeJS.ErrnoException).code ?? '';
-    throw new CliError(`cannot read ${path}: ${READ_ERRORS[code] ?? (e instanceof Error ? e.message : String(e))}`, 2);
-  }
+function readError(path: string, e: unknown): CliError {
+  const code = (e as NodeJS.ErrnoException).code ?? '';
+  return new CliError(`cannot read ${path}: ${READ_ERRORS[code] ?? (e instanceof Error ? e.message : String(e))}`, 2);
 }
 
-/** Reads and parses a snapshot; SnapshotFormatError (file, row, column) propagates for bad content. */
-export async function snapshotFileRead(path: string, mapping: ColumnMapping = {}): Promise<Snapshot> {
-  return snapshotRead(fileBytesRead(path), path, mapping);
+/** Opens a file as a ByteSource; CliError (exit 2) naming the file when it cannot be read. */
+export async function fileSourceOpen(path: string): Promise<{ source: ByteSource; close: () => Promise<void> }> {
+  let handle;
+  try {
+    const st = await stat(path);
+    if (st.isDirectory()) throw Object.assign(new Error('folder'), { code: 'EISDIR' });
+    handle = await open(path, 'r');
+  } catch (e) {
+    throw readError(path, e);
+  }
+  const size = (await handle.stat()).size;
+  const fh = handle;
+  const source: ByteSource = {
+    size,
+    path: resolve(path),
+    async read(offset, length, into) {
+      const n = Math.max(0, Math.min(length, size - offset));
+      const buf = into && into.length >= n ? into : new Uint8Array(n);
+      let got = 0;
+      try {
+        while (got < n) {
+          const { bytesRead } = await fh.read(buf, got, n - got, offset + got);
+          if (bytesRead === 0) break;
+          got += bytesRead;
+        }
+      } catch (e) {
+        throw readError(path, e);
+      }
+      return new Uint8Array(buf.buffer, buf.byteOffset, got);
+    },
+  };
+  return { source, close: () => fh.close() };
+}
+
+/** h5wasm for Node: opens paths on the host file system (loaded on first use). */
+export const h5wasmNode = (): Promise<unknown> => import('h5wasm/node');
+
+/** Reads and parses a snapshot (streaming); SnapshotFormatError (file, place) propagates for bad content. */
+export async function snapshotFileRead(path: string, mapping: ColumnMapping = {}, options: LoadOptions = {}): Promise<Snapshot> {
+  const { source, close } = await fileSourceOpen(path);
+  try {
+    return await snapshotLoad(source, path, mapping, { h5wasm: h5wasmNode, ...options });
+  } finally {
+    await close();
+  }
 }
 
 /** "line 12 (particle 10)" for particle p, using the snapshot's line numbers when it has them. */
 export function particlePlace(snapshot: Snapshot, p: number): string {
-  return snapshot.lines ? `line ${snapshot.lines[p]} (particle ${p})` : `particle ${p}`;
+  if (snapshot.lines) return `line ${snapshot.lines[p]} (particle ${p})`;
+  return `particle ${p * (snapshot.every ?? 1)}`;
 }

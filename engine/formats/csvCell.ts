@@ -1,5 +1,5 @@
 /**
- * One CSV cell → one double, straight from the bytes: the number grammar, the exact fast paths and the
+ * One cell of delimited text (comma, tab or whitespace separated) → one double, straight from the bytes: the number grammar, the exact fast paths and the
  * fallback, with the outcome in a reusable state object (parsing a file allocates nothing per cell).
  */
 import { decimalToDouble } from './decimalToDouble';
@@ -25,7 +25,7 @@ export interface CellState {
   textEnd: number;
   /** Whether the window is pure ASCII (then string index = byte index − textBegin). */
   textAscii: boolean;
-  /** Index just past the cell: at the comma or the line end. */
+  /** Index just past the cell: at the delimiter (comma, tab, or the first blank) or the line end. */
   end: number;
   /** 0 fine, 1 empty, 2 not a number, 3 NaN/Inf written out, 4 overflows to ±Infinity. */
   error: number;
@@ -40,6 +40,21 @@ export const CELL_OVERFLOW = 4;
 /** Space or tab. */
 export function isBlank(c: number): boolean {
   return c === SPACE || c === TAB;
+}
+
+/** Delimiter codes: a comma, a tab, or (DELIM_WHITESPACE) any run of spaces and tabs. */
+export const DELIM_COMMA = COMMA;
+export const DELIM_TAB = TAB;
+export const DELIM_WHITESPACE = SPACE;
+
+/** Index of the end of the cell starting at `i` (the next delimiter, or `end`). */
+export function cellEndFind(b: Uint8Array, i: number, end: number, delim: number): number {
+  if (delim === SPACE) {
+    while (i < end && !isBlank(b[i])) i++;
+    return i;
+  }
+  const k = b.indexOf(delim, i);
+  return k < 0 || k > end ? end : k;
 }
 
 function latin1(b: Uint8Array, begin: number, end: number): string {
@@ -67,15 +82,15 @@ function slowText(b: Uint8Array, begin: number, end: number, st: CellState): str
 }
 
 /**
- * Parses the decimal number in b[i..) up to the next comma or `end` into st. Grammar: blanks,
+ * Parses the decimal number in b[i..) up to the next delimiter or `end` into st. Grammar: blanks,
  * [+-], digits with an optional point (at least one digit), optional exponent [eE][+-]digits, blanks.
  * Up to 15 significant digits and |exponent| ≤ 22 take one exact multiply or divide, which IEEE
  * rounding makes correctly rounded (Clinger 1990, "How to read floating point numbers accurately",
  * PLDI '90, the fast path); up to 19 digits go through decimalToDouble; whatever that cannot decide,
  * and longer numbers, go to Number() (ECMA-262 StringToNumber, also correctly rounded).
  */
-export function cellParse(b: Uint8Array, i: number, end: number, st: CellState): void {
-  while (i < end && isBlank(b[i])) i++;
+export function cellParse(b: Uint8Array, i: number, end: number, st: CellState, delim: number = COMMA): void {
+  while (i < end && (b[i] === SPACE || (b[i] === TAB && delim !== TAB))) i++;
   const start = i;
   let neg = false;
   if (i < end && (b[i] === PLUS || b[i] === MINUS)) {
@@ -142,11 +157,14 @@ export function cellParse(b: Uint8Array, i: number, end: number, st: CellState):
     if (eneg) e = -e;
   }
   const numberEnd = i;
-  while (i < end && isBlank(b[i])) i++;
-  if (i < end && b[i] !== COMMA) ok = false;
+  if (delim === SPACE) {
+    if (i < end && !isBlank(b[i])) ok = false;
+  } else {
+    while (i < end && (b[i] === SPACE || (b[i] === TAB && delim !== TAB))) i++;
+    if (i < end && b[i] !== delim) ok = false;
+  }
   if (!ok) {
-    let stop = b.indexOf(COMMA, start);
-    if (stop < 0 || stop > end) stop = end;
+    const stop = cellEndFind(b, start, end, delim);
     st.end = stop;
     let textEnd = stop;
     while (textEnd > start && isBlank(b[textEnd - 1])) textEnd--;

@@ -1,8 +1,8 @@
 /**
- * CSV header → which column feeds which particle field, from a ColumnMapping; mistakes (a missing or
+ * Text header → which column feeds which particle field, from a ColumnMapping; mistakes (a missing or
  * doubled column) are SnapshotFormatErrors that name the header line and the column.
  */
-import { type ColumnMapping, type ColumnRef, SnapshotFormatError } from './snapshot';
+import { type ColumnMapping, type ColumnRef, SnapshotFormatError, type VectorRef } from './snapshot';
 
 /** A cell of a numbers-only first line (then the file has no header). */
 export const NUMBER_LIKE = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$|^[+-]?(nan|inf|infinity)$/i;
@@ -13,8 +13,8 @@ export function headerName(cell: string): string {
   return t.length >= 2 && t.startsWith('"') && t.endsWith('"') ? t.slice(1, -1).trim() : t;
 }
 
-/** Slots a column can feed: 0–2 position, 3 mass, 4–6 acceleration, 7 id. */
-export const SLOT_NAMES = ['position x', 'position y', 'position z', 'mass', 'acceleration x', 'acceleration y', 'acceleration z', 'id'];
+/** Slots a column can feed: 0–2 position, 3 mass, 4–6 acceleration, 7 id, 8 softening. */
+export const SLOT_NAMES = ['position x', 'position y', 'position z', 'mass', 'acceleration x', 'acceleration y', 'acceleration z', 'id', 'softening'];
 
 /** Result of layoutResolve. */
 export interface Layout {
@@ -23,6 +23,15 @@ export interface Layout {
   readonly massColumn: string | null;
   readonly hasAcc: boolean;
   readonly hasIds: boolean;
+  readonly hasSoftening: boolean;
+}
+
+/** The three references of a vector for a text file (a single name cannot hold three columns). */
+function textVector(file: string, ref: VectorRef, what: string): readonly [ColumnRef, ColumnRef, ColumnRef] {
+  if (typeof ref === 'string' || typeof ref === 'number') {
+    throw new SnapshotFormatError(file, `${what} need three columns (x, y, z), got the single column ${JSON.stringify(ref)}; name three, e.g. x,y,z or 0,1,2`);
+  }
+  return ref;
 }
 
 /** Resolves the mapping against the header (or, without one, against column numbers only). */
@@ -30,6 +39,8 @@ export function layoutResolve(file: string, columns: readonly string[], header: 
   const lower = columns.map((c) => c.toLowerCase());
   const place = header ? { row: headerRow } : {};
   const find = (ref: ColumnRef, what: string): number => {
+    // A number written as text ("3") means a column number unless the header has a column of that name.
+    if (typeof ref === 'string' && /^\d+$/.test(ref.trim()) && (!header || !lower.includes(ref.trim()))) ref = Number(ref.trim());
     if (typeof ref === 'number') {
       if (!Number.isInteger(ref) || ref < 0 || ref >= columns.length) {
         throw new SnapshotFormatError(file, `${what} is mapped to column ${ref}, but the rows have columns 0 to ${columns.length - 1}`, { ...place, column: String(ref) });
@@ -39,7 +50,7 @@ export function layoutResolve(file: string, columns: readonly string[], header: 
     if (!header) {
       throw new SnapshotFormatError(
         file,
-        `the first data line holds numbers, not column names: add a header row naming the columns (x,y,z and optionally m)`,
+        `the first data line holds numbers, not column names: add a header row naming the columns (x,y,z and optionally m), or choose columns by number (0,1,2)`,
         { row: headerRow },
       );
     }
@@ -54,7 +65,7 @@ export function layoutResolve(file: string, columns: readonly string[], header: 
     return at;
   };
   const wanted: [number, number][] = [];
-  const pos = mapping.positions ?? ['x', 'y', 'z'];
+  const pos = textVector(file, mapping.positions ?? ['x', 'y', 'z'], 'positions');
   pos.forEach((ref, d) => wanted.push([find(ref, SLOT_NAMES[d]), d]));
   let massColumn: string | null = null;
   if (mapping.mass !== null) {
@@ -71,8 +82,9 @@ export function layoutResolve(file: string, columns: readonly string[], header: 
       massColumn = columns[k];
     }
   }
-  if (mapping.accelerations) mapping.accelerations.forEach((ref, d) => wanted.push([find(ref, SLOT_NAMES[4 + d]), 4 + d]));
+  if (mapping.accelerations !== undefined) textVector(file, mapping.accelerations, 'accelerations').forEach((ref, d) => wanted.push([find(ref, SLOT_NAMES[4 + d]), 4 + d]));
   if (mapping.ids !== undefined) wanted.push([find(mapping.ids, 'id'), 7]);
+  if (mapping.softening !== undefined) wanted.push([find(mapping.softening, 'softening'), 8]);
   const last = Math.max(...wanted.map(([k]) => k));
   const slotOf = new Int32Array(last + 1).fill(-1);
   for (const [k, slot] of wanted) {
@@ -81,5 +93,5 @@ export function layoutResolve(file: string, columns: readonly string[], header: 
     }
     slotOf[k] = slot;
   }
-  return { slotOf, massColumn, hasAcc: mapping.accelerations !== undefined, hasIds: mapping.ids !== undefined };
+  return { slotOf, massColumn, hasAcc: mapping.accelerations !== undefined, hasIds: mapping.ids !== undefined, hasSoftening: mapping.softening !== undefined };
 }

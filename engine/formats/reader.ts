@@ -1,11 +1,13 @@
 /**
- * The contract every snapshot format implements. A format is one object: adding .npy, HDF5 or a
- * decompressing wrapper means adding a reader to the list in registry.ts, nothing else.
+ * The contract every snapshot format implements. A format is one object: adding a format means adding
+ * a reader to the list in registry.ts, nothing else.
  */
+import type { ByteSource } from './byteSource';
+import type { LoadOptions, SnapshotDescription } from './description';
 import type { ColumnMapping, Snapshot } from './snapshot';
 
 export interface SnapshotReader {
-  /** Short name shown to users and stored in Snapshot.format (e.g. 'csv'). */
+  /** Short name shown to users and stored in Snapshot.format (e.g. 'text', 'npy'). */
   readonly name: string;
   /** One-line description for help texts. */
   readonly description: string;
@@ -18,4 +20,8 @@ export interface SnapshotReader {
   sniff(bytes: Uint8Array, fileName: string): boolean;
   /** Parses the whole file; throws SnapshotFormatError naming file, row and column on bad input. */
   read(bytes: Uint8Array, fileName: string, mapping?: ColumnMapping): Snapshot | Promise<Snapshot>;
+  /** Lists what the file offers and proposes a mapping, reading as little as it can. */
+  describe?(source: ByteSource, fileName: string, options?: LoadOptions): Promise<SnapshotDescription>;
+  /** Reads the particles, streaming from the source; errors as for read. */
+  load?(source: ByteSource, fileName: string, mapping: ColumnMapping, options?: LoadOptions): Promise<Snapshot>;
 }

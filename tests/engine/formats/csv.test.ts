@@ -25,7 +25,7 @@ function formatError(f: () => unknown): SnapshotFormatError {
 describe('csvRead(bytes, fileName, mapping)', () => {
   it('reads x,y,z,m into flat typed arrays in file order', () => {
     const s = read('x,y,z,m\n0.5,0.25,0.125,2\n1,2,3,4\n');
-    expect(s.format).toBe('csv');
+    expect(s.format).toBe('text');
     expect(s.count).toBe(2);
     expect(Array.from(s.positions)).toEqual([0.5, 0.25, 0.125, 1, 2, 3]);
     expect(Array.from(s.masses)).toEqual([2, 4]);
@@ -217,10 +217,13 @@ describe('csvRead errors name file, line, particle and column', () => {
 });
 
 describe('csvReader.sniff(bytes, fileName)', () => {
-  it('claims .csv files and comma-separated text under other names', () => {
+  it('claims text-named files, comma-separated text under other names, and whitespace-separated numbers', () => {
     expect(csvReader.sniff(bytes('x y z\n'), 'a.CSV')).toBe(true);
-    expect(csvReader.sniff(bytes('# c\nx,y,z\n'), 'a.txt')).toBe(true);
-    expect(csvReader.sniff(bytes('x y z\n1 2 3\n'), 'a.txt')).toBe(false);
+    expect(csvReader.sniff(bytes('x y z\n1 2 3\n'), 'a.txt')).toBe(true);
+    expect(csvReader.sniff(bytes('# c\nx,y,z\n'), 'snapshot')).toBe(true);
+    expect(csvReader.sniff(bytes('1 2 3\n'), 'snapshot')).toBe(true);
+    expect(csvReader.sniff(bytes('x y z\n1 2 3\n'), 'snapshot')).toBe(false);
+    expect(csvReader.sniff(bytes('hello world\n'), 'notes')).toBe(false);
   });
 
   it('refuses binary data even under a .csv name', () => {

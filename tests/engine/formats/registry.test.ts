@@ -7,20 +7,29 @@ import { SnapshotFormatError } from '../../../engine/formats/snapshot';
 const enc = new TextEncoder();
 
 describe('snapshotReaderFind(bytes, fileName, readers)', () => {
-  it('knows the CSV reader', () => {
+  it('knows the text, .npy, .npz and HDF5 readers, binary formats first', () => {
+    expect(SNAPSHOT_READERS.map((r) => r.name)).toEqual(['npy', 'npz', 'hdf5', 'text']);
     expect(SNAPSHOT_READERS).toContain(csvReader);
-    expect(snapshotReaderFind(enc.encode('x,y,z\n'), 'a.csv').name).toBe('csv');
+    expect(snapshotReaderFind(enc.encode('x,y,z\n'), 'a.csv').name).toBe('text');
+    expect(snapshotReaderFind(new Uint8Array([0x93, 0x4e, 0x55, 0x4d, 0x50, 0x59, 1, 0]), 'a.dat').name).toBe('npy');
+    expect(snapshotReaderFind(new Uint8Array([0x89, 0x48, 0x44, 0x46, 0x0d, 0x0a, 0x1a, 0x0a, 0]), 'snap').name).toBe('hdf5');
+    expect(snapshotReaderFind(new Uint8Array([0x50, 0x4b, 3, 4, 0]), 'snap.npz').name).toBe('npz');
+  });
+
+  it('hands a binary-named file with the wrong content to its reader (which then names the wrong magic)', () => {
+    expect(snapshotReaderFind(new Uint8Array([1, 2, 3, 0]), 'snap.npy').name).toBe('npy');
+    expect(snapshotReaderFind(new Uint8Array([1, 2, 3, 0]), 'snap.h5').name).toBe('hdf5');
   });
 
   it('refuses bytes no reader claims, with a one-line message naming the file and the known formats', () => {
     let err: unknown;
     try {
-      snapshotReaderFind(new Uint8Array([0x89, 0x48, 0x44, 0x46, 0x0d, 0x0a, 0x1a, 0x0a, 0]), 'snap.h5');
+      snapshotReaderFind(new Uint8Array([0x7f, 0x45, 0x4c, 0x46, 0, 1, 2]), 'snap.bin');
     } catch (e) {
       err = e;
     }
     expect(err).toBeInstanceOf(SnapshotFormatError);
-    expect((err as Error).message).toMatch(/^snap\.h5: not a snapshot format .*csv/);
+    expect((err as Error).message).toMatch(/^snap\.bin: not a snapshot format .*npy .*npz .*hdf5 .*text/);
     expect((err as Error).message).not.toMatch(/\n/);
   });
 
@@ -34,6 +43,6 @@ describe('snapshotReaderFind(bytes, fileName, readers)', () => {
     };
     const readers = [fake, ...SNAPSHOT_READERS];
     expect((await snapshotRead(enc.encode('x,y,z\n'), 'a.fake', {}, readers)).format).toBe('fake');
-    expect((await snapshotRead(enc.encode('x,y,z\n1,2,3\n'), 'a.csv', {}, readers)).format).toBe('csv');
+    expect((await snapshotRead(enc.encode('x,y,z\n1,2,3\n'), 'a.csv', {}, readers)).format).toBe('text');
   });
 });
