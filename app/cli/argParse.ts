@@ -13,12 +13,16 @@ export interface OptionSpec {
   readonly help: string;
   /** Default shown in help. */
   readonly defaultText?: string;
+  /** May be given more than once (all values in ParsedArgs.lists). */
+  readonly repeatable?: boolean;
 }
 
 export interface ParsedArgs {
   readonly positionals: readonly string[];
   /** Option values by name (flags map to ''). */
   readonly values: ReadonlyMap<string, string>;
+  /** Every value of each repeatable option, in order (values holds the first). */
+  readonly lists: ReadonlyMap<string, readonly string[]>;
 }
 
 /** Parses argv (without the command word) against specs; `--` ends the options. */
@@ -26,6 +30,7 @@ export function argsParse(argv: readonly string[], specs: readonly OptionSpec[],
   const byName = new Map(specs.map((s) => [s.name, s]));
   const positionals: string[] = [];
   const values = new Map<string, string>();
+  const lists = new Map<string, string[]>();
   let onlyPositionals = false;
   for (let i = 0; i < argv.length; i++) {
     const arg = argv[i];
@@ -42,16 +47,18 @@ export function argsParse(argv: readonly string[], specs: readonly OptionSpec[],
     const name = arg.slice(2, eq < 0 ? undefined : eq);
     const spec = byName.get(name);
     if (!spec) throw new UsageError(`unknown option --${name} for '${command}'`, command);
-    if (values.has(name)) throw new UsageError(`option --${name} is given twice`, command);
+    if (values.has(name) && !spec.repeatable) throw new UsageError(`option --${name} is given twice`, command);
+    let value = '';
     if (spec.metavar === undefined) {
       if (eq >= 0) throw new UsageError(`option --${name} takes no value`, command);
-      values.set(name, '');
     } else if (eq >= 0) {
-      values.set(name, arg.slice(eq + 1));
+      value = arg.slice(eq + 1);
     } else {
       if (i + 1 >= argv.length) throw new UsageError(`option --${name} needs a value: --${name} ${spec.metavar}`, command);
-      values.set(name, argv[++i]);
+      value = argv[++i];
     }
+    if (!values.has(name)) values.set(name, value);
+    if (spec.repeatable) lists.set(name, [...(lists.get(name) ?? []), value]);
   }
-  return { positionals, values };
+  return { positionals, values, lists };
 }

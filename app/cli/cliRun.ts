@@ -7,9 +7,11 @@ import { SnapshotFormatError } from '../../engine/formats/snapshot';
 import { version } from '../../package.json';
 import { CliError, UsageError, oneLine } from './cliErrors';
 import type { CliIo } from './cliIo';
+import { checkRun } from './checkCommand';
+import { convergeRun } from './convergeCommand';
 import { demoRun } from './demoCommand';
 import { forcesRun } from './forcesCommand';
-import { demoHelp, forcesHelp, mainHelp } from './help';
+import { checkHelp, convergeHelp, demoHelp, forcesHelp, mainHelp } from './help';
 
 /** Runs the command line `argv` (without node and the script); resolves to the exit code. */
 export async function cliRun(argv: readonly string[], io: CliIo): Promise<number> {
@@ -27,14 +29,18 @@ export async function cliRun(argv: readonly string[], io: CliIo): Promise<number
         io.stdout(`torusgrav ${version}\n`);
         return 0;
       case 'help':
-        io.stdout(rest[0] === 'forces' ? forcesHelp() : rest[0] === 'demo' ? demoHelp() : mainHelp(version));
+        io.stdout(rest[0] === 'forces' ? forcesHelp() : rest[0] === 'demo' ? demoHelp() : rest[0] === 'converge' ? convergeHelp() : rest[0] === 'check' ? checkHelp() : mainHelp(version));
         return 0;
       case 'forces':
         return await forcesRun(rest, io, forcesHelp);
+      case 'check':
+        return await checkRun(rest, io, checkHelp);
+      case 'converge':
+        return await convergeRun(rest, io, convergeHelp);
       case 'demo':
         return await demoRun(rest, io, demoHelp);
       default:
-        throw new UsageError(`unknown command ${JSON.stringify(command)}; commands are forces and demo`);
+        throw new UsageError(`unknown command ${JSON.stringify(command)}; commands are forces, converge, check and demo`);
     }
   } catch (e) {
     const { text, code } = errorReport(e);

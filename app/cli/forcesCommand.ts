@@ -1,6 +1,6 @@
 /**
  * `torusgrav forces`: periodic (Ewald) accelerations and potentials for the particles of a snapshot,
- * written as CSV id,ax,ay,az,phi. Reading, checking and writing only; the numerics are the engine's.
+ * written as CSV id,ax,ay,az,phi (or, with --method direct, a plain image sum: forcesDirect.ts). Reading, checking and writing only; the numerics are the engine's.
  */
 import { resolve } from 'node:path';
 import { EngineInputError } from '../../engine/ewald/ewald';
@@ -13,6 +13,8 @@ import { targetsResolve } from '../../engine/targets';
 import { outputProblem, outputWriteAtomic } from './atomicOutput';
 import { CliError, UsageError } from './cliErrors';
 import type { CliIo } from './cliIo';
+import { engineErrorExplain, outsideWarning, targetIds } from './engineErrors';
+import { forcesDirectRun } from './forcesDirect';
 import { FORCES_COMMAND, forcesSettings } from './forcesOptions';
 import { ewaldForcesThreads } from './parallelEwald';
 import { progressLine } from './progress';
@@ -63,18 +65,6 @@ function relativeErrors(fileAcc: Float64Array, targets: Int32Array, acc: Float64
   return err;
 }
 
-/** Engine complaints about particles, pointed at the input rows. */
-function engineErrorExplain(e: EngineInputError, snapshot: Snapshot, file: string, wrapped: boolean): CliError {
-  if (e.index !== undefined && e.other !== undefined) {
-    return new CliError(
-      `${file}: ${particlePlace(snapshot, e.index)} and ${particlePlace(snapshot, e.other)} sit at the same position${wrapped ? ' (after wrapping into the box)' : ''}; ` +
-        'without softening their force is infinite: remove one, or use --softening plummer:EPS or spline:H',
-    );
-  }
-  if (e.index !== undefined) return new CliError(`${file}: ${particlePlace(snapshot, e.index)}: ${e.message}`);
-  return new CliError(`${file}: ${e.message}`);
-}
-
 /** Runs `torusgrav forces`; resolves to the exit code. */
 export async function forcesRun(argv: readonly string[], io: CliIo, helpText: () => string): Promise<number> {
   const settings = forcesSettings(argv);
@@ -93,6 +83,7 @@ export async function forcesRun(argv: readonly string[], io: CliIo, helpText: ()
     limitAdvice: 'raise it with --max-size SIZE if the machine has the memory, or read every K-th particle with --every K',
   });
   const box = settings.box ?? snapshot.box!;
+  if (settings.direct) return forcesDirectRun(settings, settings.direct, snapshot, box, io, t0);
   const softening = settings.softeningFromColumn ? softeningFromColumn(snapshot, settings.softeningFromColumn, file) : settings.softening;
   const outside = snapshotValidate(snapshot, file, box, { softened: softening.kind !== 'none', coincident: false });
   const n = snapshot.count;
@@ -112,24 +103,12 @@ export async function forcesRun(argv: readonly string[], io: CliIo, helpText: ()
   }
   const tComputed = io.now();
   // Reported after the run so that a failing run still prints exactly one line.
-  if (outside.outside > 0) {
-    const k = outside.outside;
-    io.stderr(
-      `torusgrav: warning: ${k} of ${n} particle${n === 1 ? '' : 's'} ${k === 1 ? 'lies' : 'lie'} outside the box ` +
-        `[0,${box.lx})x[0,${box.ly})x[0,${box.lz}) and ${k === 1 ? 'was' : 'were'} wrapped into it ` +
-        `(the first: ${file} ${particlePlace(snapshot, outside.firstOutside)})\n`,
-    );
-  }
+  if (outside.outside > 0) io.stderr(outsideWarning(outside.outside, n, box, file, snapshot, outside.firstOutside));
   for (let t = 0; t < result.targets.length; t++) {
     const bad = !Number.isFinite(result.phi[t]) || !Number.isFinite(result.acc[3 * t]) || !Number.isFinite(result.acc[3 * t + 1]) || !Number.isFinite(result.acc[3 * t + 2]);
     if (bad) throw new CliError(`internal error: non-finite result for ${particlePlace(snapshot, result.targets[t])}; please report this with the input file`, 1);
   }
-  const every = snapshot.every ?? 1;
-  const ids: ArrayLike<number> = snapshot.ids
-    ? Float64Array.from(result.targets, (p) => snapshot.ids![p])
-    : every > 1
-      ? Float64Array.from(result.targets, (p) => p * every)
-      : result.targets;
+  const ids = targetIds(snapshot, result.targets);
   const errors = snapshot.accelerations ? relativeErrors(snapshot.accelerations, result.targets, result.acc) : null;
   const columns: CsvColumn[] = [
     { name: 'id', values: ids, integer: true },

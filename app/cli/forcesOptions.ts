@@ -11,12 +11,13 @@ import { type OptionSpec, argsParse } from './argParse';
 import { UsageError } from './cliErrors';
 import { mappingFromOptions, sizeParse } from './mappingOptions';
 import { boxParse, integerParse, positiveParse, softeningParse, targetsCountParse, tolParse } from './optionValues';
+import { ORDER_OPTIONS, ORDER_OPTION_NAMES, type OrderSettings, orderSettings } from './orderOptions';
 import { defaultThreads } from './parallelEwald';
 
 export const FORCES_COMMAND = 'forces';
 const COMMAND = FORCES_COMMAND;
 
-export const FORCES_USAGE = 'torusgrav forces SNAPSHOT --box L|Lx,Ly,Lz|@PATH --out FILE.csv [options]';
+export const FORCES_USAGE = 'torusgrav forces SNAPSHOT --box L|Lx,Ly,Lz|@PATH --out FILE.csv [--method ewald|direct --order NAME] [options]';
 
 /** G to 8 significant digits, in exponent form when very small or large. */
 function gText(G: number): string {
@@ -49,6 +50,12 @@ export const FORCES_ABOUT = [
   'Output: CSV with header id,ax,ay,az,phi (plus rel_err with --accelerations), where id is the particle\'s',
   'id from --ids, else its 0-based particle (data row) of the input; numbers have 17 significant digits.',
   'rel_err = |a_file - a|/|a|, the relative error of the file\'s accelerations against the reference.',
+  'With --method direct (plain image sum in the summation order --order): CSV with header id,ax,ay,az',
+  'only - no phi column, because the plain sums\' potentials carry order-dependent constants. The',
+  'acceleration is the partial sum of the largest shell (--shells), the λ → 0 extrapolation of the',
+  'screened sums, or the nearest-image sum. --softening, --softening-column, --accelerations and',
+  '--threads apply to the Ewald method only; --tol is then the tolerance of the exact parts, in',
+  '[1e-14, 1e-2] (default 1e-10). See torusgrav converge for the partial sums shell by shell.',
   'Conventions: a = -grad phi points toward mass; phi = -G m/r near a mass; the mean density is removed',
   '(zero-mean potential, no self-force), as in comoving simulations.',
   '',
@@ -65,6 +72,8 @@ export const FORCES_OPTIONS: readonly OptionSpec[] = [
     help: 'periodic box: one side (cube) or three sides, each > 0; home cell [0,Lx)x[0,Ly)x[0,Lz); or @PATH to read it from the file: an HDF5 dataset (@/header/box), an attribute (@/bodies#side; @/#BoxSize on the root group) or an .npz array (@box) holding one or three sides (required)',
   },
   { name: 'out', metavar: 'FILE.csv', help: 'output file; written whole or not at all (an existing file stays untouched on failure) (required)' },
+  { name: 'method', metavar: 'ewald|direct', help: 'ewald: the exact periodic reference; direct: the plain image sum in the summation order --order (see above)', defaultText: 'ewald' },
+  ...ORDER_OPTIONS.map((s) => ({ ...s, help: `--method direct only: ${s.help}` })),
   { name: 'positions', metavar: 'SPEC', help: 'where the positions are: three columns x,y,z (names or numbers) or one N×3 array/dataset', defaultText: 'text: x,y,z; binary: proposed by shape and name' },
   { name: 'masses', metavar: 'SPEC | none', help: 'the mass column/array/dataset; none ignores any mass column (all masses 1)', defaultText: 'text: m or mass; binary: proposed by name' },
   { name: 'accelerations', metavar: 'SPEC', help: "the code-under-test accelerations (x,y,z or one N×3 array/dataset), in the file's units: adds rel_err to the output and error percentiles to the report" },
@@ -101,6 +110,27 @@ export interface ForcesSettings {
   readonly mapping: ColumnMapping;
   readonly maxBytes: number;
   readonly every: number;
+  readonly method: 'ewald' | 'direct';
+  /** The summation order of --method direct, else null. */
+  readonly direct: OrderSettings | null;
+  /** Whether --tol was given (--method direct then passes it to the image sum). */
+  readonly tolGiven: boolean;
+}
+
+/** Options that apply to one method only, checked against the chosen one. */
+function methodCheck(values: ReadonlyMap<string, string>): 'ewald' | 'direct' {
+  const text = values.get('method');
+  const method = text === undefined ? 'ewald' : text.trim().toLowerCase();
+  if (method !== 'ewald' && method !== 'direct') throw new UsageError(`--method must be ewald or direct, got ${JSON.stringify(text)}`, COMMAND);
+  const given = (names: readonly string[]) => names.filter((n) => values.has(n)).map((n) => `--${n}`);
+  if (method === 'ewald') {
+    const wrong = given(ORDER_OPTION_NAMES);
+    if (wrong.length > 0) throw new UsageError(`${wrong.join(', ')} ${wrong.length === 1 ? 'applies' : 'apply'} to --method direct only`, COMMAND);
+  } else {
+    const wrong = given(['softening', 'softening-column', 'accelerations', 'threads']);
+    if (wrong.length > 0) throw new UsageError(`${wrong.join(', ')} ${wrong.length === 1 ? 'applies' : 'apply'} to --method ewald only (the plain image sums are unsoftened, single-threaded and compare with nothing)`, COMMAND);
+  }
+  return method;
 }
 
 /** Checks the parsed command line and turns it into settings; UsageError names the faulty option. */
@@ -113,6 +143,8 @@ export function forcesSettings(argv: readonly string[]): ForcesSettings | 'help'
   if (box === undefined) throw new UsageError('--box is required (the periodic box side L, or Lx,Ly,Lz, or @PATH to read it from the file)', COMMAND);
   const out = values.get('out');
   if (out === undefined || out === '') throw new UsageError('--out FILE.csv is required', COMMAND);
+  const method = methodCheck(values);
+  const direct = method === 'direct' ? orderSettings(values, COMMAND, false) : null;
   const sample = values.get('sample');
   const seed = values.get('seed');
   const targetsText = values.get('targets');
@@ -156,6 +188,9 @@ export function forcesSettings(argv: readonly string[]): ForcesSettings | 'help'
     G: units ? units.G : G === undefined ? 1 : positiveParse(G, 'G', COMMAND),
     units,
     tol: tol === undefined ? 1e-6 : tolParse(tol, COMMAND),
+    tolGiven: tol !== undefined,
+    method,
+    direct,
     targets,
     softening: soft,
     softeningFromColumn,

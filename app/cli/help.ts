@@ -1,5 +1,7 @@
 /** Help texts, built from the commands' option lists so that every option is documented. */
 import type { OptionSpec } from './argParse';
+import { CHECK_ABOUT, CHECK_EXIT, CHECK_OPTIONS, CHECK_USAGE } from './checkCommand';
+import { CONVERGE_ABOUT, CONVERGE_OPTIONS, CONVERGE_USAGE } from './convergeCommand';
 import { DEMO_ABOUT, DEMO_OPTIONS, DEMO_USAGE } from './demoCommand';
 import { FORCES_ABOUT, FORCES_OPTIONS, FORCES_USAGE } from './forcesOptions';
 
@@ -41,6 +43,16 @@ export function forcesHelp(): string {
   return [`Usage: ${FORCES_USAGE}`, '', ...FORCES_ABOUT, '', 'Options:', ...optionLines(FORCES_OPTIONS), '', ...EXIT_CODES, ''].join('\n');
 }
 
+/** Help for `torusgrav converge`. */
+export function convergeHelp(): string {
+  return [`Usage: ${CONVERGE_USAGE}`, '', ...CONVERGE_ABOUT, '', 'Options:', ...optionLines(CONVERGE_OPTIONS), '', ...EXIT_CODES, ''].join('\n');
+}
+
+/** Help for `torusgrav check` (its own exit codes: 1 means a requirement failed). */
+export function checkHelp(): string {
+  return [`Usage: ${CHECK_USAGE}`, '', ...CHECK_ABOUT, '', 'Options:', ...optionLines(CHECK_OPTIONS), '', ...CHECK_EXIT, ''].join('\n');
+}
+
 /** Help for `torusgrav demo`. */
 export function demoHelp(): string {
   return [`Usage: ${DEMO_USAGE}`, '', ...DEMO_ABOUT, '', 'Options:', ...optionLines(DEMO_OPTIONS), '', ...EXIT_CODES, ''].join('\n');
@@ -53,12 +65,16 @@ export function mainHelp(version: string): string {
     '',
     'Usage:',
     `  ${FORCES_USAGE}`,
+    `  ${CONVERGE_USAGE}`,
+    `  ${CHECK_USAGE}`,
     `  ${DEMO_USAGE}`,
     '  torusgrav --help | --version',
     '  torusgrav help COMMAND',
     '',
     'Commands:',
     '  forces   accelerations and potentials for the particles of a snapshot',
+    '  converge partial sums of a plain image sum shell by shell, and the predicted limit',
+    '  check    force-accuracy gate: compare the file\'s accelerations with the reference, exit 0/1',
     '  demo     write the seeded demo snapshot',
     '',
     'Options:',
@@ -68,6 +84,12 @@ export function mainHelp(version: string): string {
     '-- torusgrav forces --',
     '',
     forcesHelp(),
+    '-- torusgrav converge --',
+    '',
+    convergeHelp(),
+    '-- torusgrav check --',
+    '',
+    checkHelp(),
     '-- torusgrav demo --',
     '',
     demoHelp(),

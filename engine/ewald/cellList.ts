@@ -97,6 +97,32 @@ export function cellListBuild(positions: Float64Array, masses: Float64Array, box
   return { n, w, xyzm, order, slot, start, stencil: offsets, halfCount };
 }
 
+/**
+ * Neighbour of cell (cx, cy, cz) at stencil offset q: returns its cell index and writes into shift[0..2]
+ * the periodic shift (length units) of the image of that cell that the offset reaches.
+ */
+export function cellListNeighbour(cells: CellList, box: Box, cx: number, cy: number, cz: number, q: number, shift: Float64Array): number {
+  const [nx, ny, nz] = cells.n;
+  const st = cells.stencil;
+  let ix = cx + st[3 * q], iy = cy + st[3 * q + 1], iz = cz + st[3 * q + 2];
+  const fx = Math.floor(ix / nx), fy = Math.floor(iy / ny), fz = Math.floor(iz / nz);
+  ix -= fx * nx;
+  iy -= fy * ny;
+  iz -= fz * nz;
+  shift[0] = fx * box.lx;
+  shift[1] = fy * box.ly;
+  shift[2] = fz * box.lz;
+  return (ix * ny + iy) * nz + iz;
+}
+
+/** Grid coordinates (cx, cy, cz) of cell number `cell`. */
+export function cellListCoordinates(cells: CellList, cell: number): [number, number, number] {
+  const [, ny, nz] = cells.n;
+  const cz = cell % nz;
+  const cy = ((cell - cz) / nz) % ny;
+  return [(cell - cz - cy * nz) / (ny * nz), cy, cz];
+}
+
 /** Cell index of a sorted particle's coordinates. */
 export function cellListCellOf(cells: CellList, x: number, y: number, z: number): [number, number, number] {
   return [cellOf(x, cells.w[0], cells.n[0]), cellOf(y, cells.w[1], cells.n[1]), cellOf(z, cells.w[2], cells.n[2])];

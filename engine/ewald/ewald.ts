@@ -8,7 +8,7 @@
  * ewaldAllRealChunk + ewaldFourierChunk → ewaldFinalize. ewaldForces runs them all on one thread.
  */
 import { type Box, boxMake, boxVolume, positionsWrap } from '../box';
-import { type CellList, cellListBuild } from './cellList';
+import { type CellList, cellListBuild, cellListCoordinates, cellListNeighbour } from './cellList';
 import { type KernelTable, kernelTableBuild } from './kernelTable';
 import { type KSpace, kSpaceBuild, kSpaceStructureFactor, kSpaceTargets, kSpaceWeigh } from './kSpace';
 import { type EwaldOptions, type EwaldParams, ewaldParamsChoose } from './params';
@@ -379,27 +379,20 @@ export function ewaldRefineWeak(
  * `symmetric`, each unordered pair (or particle–own-image pair) once, as the all-particle loop visits them.
  */
 export function ewaldPairCount(setup: EwaldSetup, symmetric = true): number {
-  const { xyzm, start, stencil, halfCount } = setup.cells;
-  const [nx, ny, nz] = setup.cells.n;
-  const { lx, ly, lz } = setup.box;
+  const cells = setup.cells;
+  const { xyzm, start, halfCount } = cells;
   const r = Math.max(setup.params.rCut, setup.params.rSoft);
   const r2max = r * r;
-  const nq = symmetric ? halfCount : stencil.length / 3;
+  const nq = symmetric ? halfCount : cells.stencil.length / 3;
+  const shift = new Float64Array(3);
   let count = 0;
   for (let cell0 = 0; cell0 + 1 < start.length; cell0++) {
-    const cz = cell0 % nz;
-    const cy = ((cell0 - cz) / nz) % ny;
-    const cx = (cell0 - cz - cy * nz) / (ny * nz);
+    const [cx, cy, cz] = cellListCoordinates(cells, cell0);
     for (let q = 0; q < nq; q++) {
-      let ix = cx + stencil[3 * q], iy = cy + stencil[3 * q + 1], iz = cz + stencil[3 * q + 2];
-      let sx = 0, sy = 0, sz = 0;
-      if (ix < 0 || ix >= nx) { const f = Math.floor(ix / nx); ix -= f * nx; sx = f * lx; }
-      if (iy < 0 || iy >= ny) { const f = Math.floor(iy / ny); iy -= f * ny; sy = f * ly; }
-      if (iz < 0 || iz >= nz) { const f = Math.floor(iz / nz); iz -= f * nz; sz = f * lz; }
-      const cell = (ix * ny + iy) * nz + iz;
+      const cell = cellListNeighbour(cells, setup.box, cx, cy, cz, q, shift);
       for (let i = start[cell0]; i < start[cell0 + 1]; i++) {
-        const px = xyzm[4 * i] - sx, py = xyzm[4 * i + 1] - sy, pz = xyzm[4 * i + 2] - sz;
-        const jStart = q === 0 ? (symmetric ? i + 1 : start[cell]) : start[cell];
+        const px = xyzm[4 * i] - shift[0], py = xyzm[4 * i + 1] - shift[1], pz = xyzm[4 * i + 2] - shift[2];
+        const jStart = q === 0 && symmetric ? i + 1 : start[cell];
         for (let j = jStart; j < start[cell + 1]; j++) {
           if (q === 0 && j === i) continue;
           const dx = px - xyzm[4 * j], dy = py - xyzm[4 * j + 1], dz = pz - xyzm[4 * j + 2];

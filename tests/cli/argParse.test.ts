@@ -15,6 +15,14 @@ describe('argsParse(argv, specs, command)', () => {
     expect(Object.fromEntries(r.values)).toEqual({ box: '-1', out: 'o.csv', help: '' });
   });
 
+  it('collects every value of a repeatable option in order (values keeps the first)', () => {
+    const specs = [...SPECS, { name: 'require', metavar: 'R', help: 'r', repeatable: true }];
+    const r = argsParse(['--require', 'p99<=1', '--require=max<2', 'a.csv'], specs, 'check');
+    expect(r.lists.get('require')).toEqual(['p99<=1', 'max<2']);
+    expect(r.values.get('require')).toBe('p99<=1');
+    expect(r.lists.has('box')).toBe(false);
+  });
+
   it('treats everything after -- as positionals', () => {
     expect(argsParse(['--', '--box'], SPECS, 'forces').positionals).toEqual(['--box']);
   });

@@ -1,0 +1,7 @@
+// Comparison statistics: relative errors, percentiles, distributions, neighbours.
+export * from './relativeError';
+export * from './percentile';
+export * from './bins';
+export * from './errorSummary';
+export * from './errorReport';
+export * from './neighbours';
