@@ -1,10 +1,13 @@
 #!/usr/bin/env node
-// Browser tests: builds the web app, serves dist/ with `vite preview` (one process, stopped at the end),
-// drives Debian's chromium through playwright-core, runs every test exported by tests/e2e/*.mjs and
-// prints "e2e: N passed, M failed". Each test module exports `tests`: { 'name': async (page, baseUrl) => {} }.
-// For every test the runner also fails on console errors, uncaught page errors and any request that
-// leaves the page's origin. Screenshots go to test-results/.
-import { spawn } from 'node:child_process';
+// Browser tests: writes the snapshot files the tests drop (tests/e2e/fixtures.ts), builds the web app,
+// serves dist/ with `vite preview` (one process, stopped at the end), drives Debian's chromium through
+// playwright-core, runs every test exported by tests/e2e/*.mjs and prints "e2e: N passed, M failed".
+// Each test module exports `tests`: { 'name': async (page, baseUrl, ctx) => {} } with ctx = { screenshot,
+// log, fixtures, allowConsoleError(regexp) } (the last for a test that provokes an error on purpose). For every test the runner also fails on console errors, uncaught page errors and any
+// request that leaves the page's origin. Every page records its long main-thread tasks in
+// window.__longTasks (PerformanceObserver) and its status changes in window.__status. Speed is not
+// asserted here (benchmarks measure it); the tests log what they see. Screenshots go to test-results/.
+import { spawn, spawnSync } from 'node:child_process';
 import { mkdirSync, mkdtempSync, readdirSync, rmSync } from 'node:fs';
 import { createServer } from 'node:net';
 import { tmpdir } from 'node:os';
@@ -16,7 +19,8 @@ process.chdir(root);
 const resultsDir = join(root, 'test-results');
 mkdirSync(resultsDir, { recursive: true });
 const only = process.argv[2] ?? '';
-const TEST_TIMEOUT_MS = 45_000;
+const TEST_TIMEOUT_MS = 60_000;
+const fixtures = join(resultsDir, 'e2e-fixtures');
 
 const t0 = Date.now();
 const log = (msg) => console.log(`[e2e ${((Date.now() - t0) / 1000).toFixed(1)}s] ${msg}`);
@@ -73,10 +77,10 @@ function withTimeout(promise, ms, what) {
 }
 
 /** Records what a page does that no test should allow: console errors, page errors, foreign requests. */
-function pageWatch(page, origin) {
+function pageWatch(page, origin, allowed) {
   const problems = [];
   page.on('console', (m) => {
-    if (m.type() === 'error') problems.push(`console error: ${m.text()}`);
+    if (m.type() === 'error' && !allowed.some((re) => re.test(m.text()))) problems.push(`console error: ${m.text()}`);
   });
   page.on('pageerror', (e) => problems.push(`uncaught page error: ${e.message}`));
   const onRequest = (req) => {
@@ -101,6 +105,9 @@ let profileDir = null;
 let passed = 0;
 let failed = 0;
 try {
+  log('writing snapshot fixtures');
+  const fx = spawnSync(process.execPath, ['--import', 'tsx', join(root, 'tests/e2e/fixtures.ts'), fixtures], { cwd: root, encoding: 'utf8' });
+  if (fx.status !== 0) throw new Error(`fixtures failed: ${fx.stderr || fx.stdout}`);
   log('building (vite build)');
   const { build } = await import('vite');
   await build({ configFile: join(root, 'vite.config.ts'), logLevel: 'warn' });
@@ -143,11 +150,35 @@ try {
     for (const [name, run] of Object.entries(mod.tests ?? {})) {
       if (only && !`${file} ${name}`.includes(only)) continue;
       const page = await ctx.newPage();
-      const problems = pageWatch(page, new URL(baseUrl).origin);
+      await page.addInitScript(() => {
+        window.__longTasks = [];
+        try {
+          new PerformanceObserver((list) => {
+            for (const e of list.getEntries()) window.__longTasks.push({ start: e.startTime, duration: e.duration });
+          }).observe({ type: 'longtask', buffered: true });
+        } catch {
+          /* no long-task timing in this browser */
+        }
+        // status pill and status line changes with their times (which long tasks fell while computing;
+        // which phases a computation went through)
+        window.__status = [];
+        let last = '';
+        const look = () => {
+          const t = document.querySelector('[data-testid=status]')?.textContent ?? '';
+          const m = document.querySelector('[data-testid=status-message]')?.textContent ?? '';
+          if (`${t}|${m}` !== last) {
+            last = `${t}|${m}`;
+            window.__status.push({ t: performance.now(), status: t, message: m });
+          }
+        };
+        document.addEventListener('DOMContentLoaded', () => new MutationObserver(look).observe(document.body, { subtree: true, childList: true, characterData: true }));
+      });
+      const allowed = [];
+      const problems = pageWatch(page, new URL(baseUrl).origin, allowed);
       const shot = join(resultsDir, `e2e-${slug(file.replace(/\.mjs$/, ''))}-${slug(name)}.png`);
       const started = Date.now();
       try {
-        await withTimeout(run(page, baseUrl, { screenshot: (suffix) => page.screenshot({ path: shot.replace(/\.png$/, `-${suffix}.png`), fullPage: true }), log }), TEST_TIMEOUT_MS, name);
+        await withTimeout(run(page, baseUrl, { screenshot: (suffix) => page.screenshot({ path: shot.replace(/\.png$/, `-${suffix}.png`), fullPage: true }), log, fixtures, allowConsoleError: (re) => allowed.push(re) }), TEST_TIMEOUT_MS, name);
         if (problems.length) throw new Error(problems.join('\n  '));
         passed++;
         log(`ok   ${file} › ${name} (${((Date.now() - started) / 1000).toFixed(1)} s)`);

@@ -44,3 +44,15 @@ export function formatBox(box: { lx: number; ly: number; lz: number } | null | u
   if (box.lx === box.ly && box.ly === box.lz) return `${formatNumber(box.lx)} (cube)`;
   return `${formatNumber(box.lx)} × ${formatNumber(box.ly)} × ${formatNumber(box.lz)}`;
 }
+
+/** A vector (x, y, z) as "(1.23, −4.5, 6 × 10⁻³)". */
+export function formatVector(v: ArrayLike<number> | null | undefined, digits = 4): string {
+  if (!v || v.length < 3) return MISSING;
+  return `(${[0, 1, 2].map((d) => formatNumber(v[d], digits)).join(', ')})`;
+}
+
+/** A fraction as a percentage with `digits` significant digits ("12.3 %"). */
+export function formatPercent(x: number | null | undefined, digits = 3): string {
+  if (!isNumber(x)) return MISSING;
+  return `${formatNumber(100 * x, digits)} %`;
+}

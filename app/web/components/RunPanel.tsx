@@ -1,49 +1,52 @@
-/** The form (demo size, tolerance, targets), Compute and Cancel, the progress bar and the status line. */
+/** Targets, expected time, Compute and Cancel, the progress bar and the status line. */
 import type { FormEvent } from 'react';
-import { computeCancel, computeStart, draftSet, type Status } from '../state/store';
+import { formatCount, formatDuration } from '../format';
+import { computeCancel, computeStart } from '../state/pipeline';
+import { type Status, draftSet } from '../state/store';
 import { useApp } from '../state/useApp';
-import { formatDuration } from '../format';
+import { useRunPlan } from '../state/useRunPlan';
 
-function statusDetail(status: Status, message: string, progress: number, wallMs: number | undefined): string {
+function statusDetail(status: Status, message: string, phase: string, wallMs: number | undefined): string {
   switch (status) {
     case 'idle':
       return 'press Compute to start';
+    case 'loading':
     case 'computing':
-      return progress === 0 ? 'preparing: cell list, k-vectors, structure factor…' : 'summing in a background worker…';
+      return phase ? `${phase}…` : 'working in a background worker…';
     case 'done':
-      return `finished in ${formatDuration(wallMs)}`;
+      return message || `finished in ${formatDuration(wallMs)}`;
     default:
       return message;
   }
 }
 
 export function RunPanel() {
-  const draft = useApp((s) => s.draft);
+  const targets = useApp((s) => s.draft.targets);
   const status = useApp((s) => s.status);
   const message = useApp((s) => s.message);
+  const phase = useApp((s) => s.phase);
   const progress = useApp((s) => s.progress);
-  const wallMs = useApp((s) => s.run?.wallMs);
+  const wallMs = useApp((s) => s.comparison?.wallMs);
+  const { plan, error, note } = useRunPlan();
   const pct = Math.round(progress * 100);
-  const computing = status === 'computing';
+  const computing = status === 'computing' || status === 'loading';
   const onSubmit = (e: FormEvent) => {
     e.preventDefault();
     void computeStart();
   };
+  const k = plan?.targets.indices.length;
+  const targetText = plan
+    ? plan.targets.all
+      ? `all ${formatCount(k)} particles`
+      : `${formatCount(k)} drawn at random (seeded) of ${formatCount(plan.snapshot.n)}${plan.autoSampledFromMs ? ` — all would take ≈ ${formatDuration(plan.autoSampledFromMs)}` : ''}`
+    : '—';
   return (
     <section className="card" aria-labelledby="run-title">
-      <h2 id="run-title">Ewald reference</h2>
+      <h2 id="run-title">Run</h2>
       <form className="run-form" onSubmit={onSubmit}>
-        <label>
-          <span>particles (demo)</span>
-          <input name="n" inputMode="numeric" value={draft.n} onChange={(e) => draftSet({ n: e.target.value })} />
-        </label>
-        <label>
-          <span>tolerance</span>
-          <input name="tol" value={draft.tol} onChange={(e) => draftSet({ tol: e.target.value })} />
-        </label>
-        <label>
+        <label className="grow">
           <span>targets</span>
-          <input name="targets" value={draft.targets} onChange={(e) => draftSet({ targets: e.target.value })} title='"all" or a number of particles drawn at random (seeded)' />
+          <input name="targets" value={targets} onChange={(e) => draftSet({ targets: e.target.value })} title='"auto" (all when affordable, else 10 000), "all", or a number drawn at random (seeded)' />
         </label>
         <div className="buttons">
           <button type="submit" className="primary" data-testid="compute">
@@ -54,6 +57,20 @@ export function RunPanel() {
           </button>
         </div>
       </form>
+      <p className="run-plan" data-testid="run-plan" data-expected-ms={plan ? String(Math.round(plan.expectedMs)) : ''}>
+        {error ? (
+          <span className="plan-error">{error}</span>
+        ) : note ? (
+          note
+        ) : plan ? (
+          <>
+            {targetText};{' '}
+            {plan.a.cached && plan.b.cached
+              ? 'both computed — Compute again only redoes the statistics'
+              : `expected ${plan.expectedMs < 50 ? 'well under a second' : `≈ ${formatDuration(plan.expectedMs)}`}`}
+          </>
+        ) : null}
+      </p>
       <div className="progress-row">
         <div
           className={`progress${computing && progress === 0 ? ' progress-waiting' : ''}`}
@@ -73,7 +90,7 @@ export function RunPanel() {
           {status}
         </span>
         <span className="status-message" data-testid="status-message">
-          {statusDetail(status, message, progress, wallMs)}
+          {statusDetail(status, message, phase, wallMs)}
         </span>
       </p>
     </section>

@@ -1,25 +1,121 @@
-/** What is being computed: the particles, their box and masses. */
+/** What is being compared: the snapshot (demo or a dropped file), its box, masses and stored accelerations. */
+import { type DragEvent, useRef, useState } from 'react';
 import { formatBox, formatCount, formatNumber } from '../format';
+import { demoReturn, fileLoad } from '../state/pipeline';
+import { draftSet } from '../state/store';
 import { useApp } from '../state/useApp';
-import { ProjectionView } from './ProjectionView';
 import { Stat } from './Stat';
+
+/** Reads a dropped or chosen file and hands it to the store (parsing happens in the worker). */
+async function fileTake(file: File): Promise<void> {
+  const bytes = new Uint8Array(await file.arrayBuffer());
+  await fileLoad(file.name, bytes);
+}
 
 export function SnapshotPanel() {
   const snapshot = useApp((s) => s.snapshot);
+  const draft = useApp((s) => s.draft);
+  const wanted = useApp((s) => s.wantedFile);
+  const busy = useApp((s) => s.status === 'loading');
+  const [over, setOver] = useState(false);
+  const input = useRef<HTMLInputElement>(null);
+  const isFile = snapshot?.kind === 'file';
+  const onDrop = (e: DragEvent) => {
+    e.preventDefault();
+    setOver(false);
+    const f = e.dataTransfer.files?.[0];
+    if (f) void fileTake(f);
+  };
   return (
     <section className="card" data-testid="snapshot" aria-labelledby="snapshot-title">
       <h2 id="snapshot-title">Snapshot</h2>
-      <p className="card-note">{snapshot ? `${snapshot.source}, seed ${snapshot.seed}` : 'no snapshot loaded'}</p>
-      <div className="snapshot-body">
-        <dl className="stats">
-          <Stat name="n" label="N (particles)" text={formatCount(snapshot?.n)} value={snapshot?.n} />
-          <Stat name="box" label="box side" text={formatBox(snapshot?.box)} value={snapshot ? `${snapshot.box.lx} ${snapshot.box.ly} ${snapshot.box.lz}` : null} unit="length" />
-          <Stat name="mass" label="total mass" text={formatNumber(snapshot?.totalMass)} value={snapshot?.totalMass} />
-          <Stat name="G" label="G" text="1" value={1} hint="gravitational constant used by this page" />
-          <Stat name="time" label="snapshot time" text="—" hint="the demo snapshot carries no simulation time" />
-        </dl>
-        <ProjectionView snapshot={snapshot} />
+      <div
+        className={`dropzone${over ? ' dropzone-over' : ''}`}
+        onDragOver={(e) => {
+          e.preventDefault();
+          setOver(true);
+        }}
+        onDragLeave={() => setOver(false)}
+        onDrop={onDrop}
+      >
+        <input
+          ref={input}
+          type="file"
+          accept=".csv,.txt,text/csv"
+          data-testid="file-input"
+          className="visually-hidden"
+          id="file-input"
+          onChange={(e) => {
+            const f = e.target.files?.[0];
+            if (f) void fileTake(f);
+            e.target.value = '';
+          }}
+        />
+        <label htmlFor="file-input" className="drop-label">
+          <strong>{busy ? 'reading…' : 'Drop a snapshot here'}</strong> or <span className="link-like">choose a file</span>
+          <span className="drop-hint">CSV with a header: x, y, z, optional m or mass, and your accelerations as ax, ay, az</span>
+        </label>
       </div>
+      {wanted ? (
+        <p className="notice" data-testid="wanted-file">
+          This link was made for <strong>{wanted.name}</strong>
+          {wanted.n ? ` (${formatCount(wanted.n)} particles)` : ''}: drop that file to see the same view. The demo is shown meanwhile.
+        </p>
+      ) : null}
+      <p className="card-note" data-testid="snapshot-source">
+        {snapshot ? (snapshot.kind === 'demo' ? `${snapshot.source}, seed ${snapshot.seed}` : snapshot.source) : 'no snapshot loaded'}
+      </p>
+      <dl className="stats">
+        <Stat name="n" label="N (particles)" text={formatCount(snapshot?.n)} value={snapshot?.n} />
+        {isFile ? (
+          <div className="stat" data-key="box" data-value={snapshot ? `${snapshot.box.lx} ${snapshot.box.ly} ${snapshot.box.lz}` : ''}>
+            <dt>box side{snapshot?.boxGuessed ? ' (guessed)' : ''}</dt>
+            <dd>
+              <input
+                className="inline-input"
+                name="box"
+                value={draft.box}
+                onChange={(e) => draftSet({ box: e.target.value })}
+                title="one side for a cube, or Lx,Ly,Lz; files carry no box, so check this"
+              />
+            </dd>
+          </div>
+        ) : (
+          <Stat name="box" label="box side" text={formatBox(snapshot?.box)} value={snapshot ? `${snapshot.box.lx} ${snapshot.box.ly} ${snapshot.box.lz}` : null} unit="length" />
+        )}
+        <Stat name="mass" label="total mass" text={formatNumber(snapshot?.totalMass)} value={snapshot?.totalMass} />
+        <Stat
+          name="acc"
+          label="accelerations in file"
+          text={snapshot?.accelerationColumns ? snapshot.accelerationColumns.join(', ') : isFile ? 'none found' : '— (demo)'}
+          value={snapshot?.accelerationColumns?.join(',') ?? ''}
+        />
+        {isFile && snapshot && snapshot.outside > 0 ? (
+          <Stat name="outside" label="outside the box" text={`${formatCount(snapshot.outside)} (wrapped)`} value={snapshot.outside} hint="positions outside [0, L) are wrapped into the box before computing" />
+        ) : null}
+        <div className="stat" data-key="G" data-value={draft.G}>
+          <dt>G</dt>
+          <dd>
+            <input className="inline-input" name="G" value={draft.G} onChange={(e) => draftSet({ G: e.target.value })} title="gravitational constant in the snapshot’s units (used by computed methods)" />
+          </dd>
+        </div>
+      </dl>
+      {isFile ? (
+        <button type="button" className="quiet" onClick={() => void demoReturn()}>
+          back to the built-in demo
+        </button>
+      ) : (
+        <div className="inline-fields">
+          <label>
+            <span>demo particles</span>
+            <input name="n" inputMode="numeric" value={draft.n} onChange={(e) => draftSet({ n: e.target.value })} />
+          </label>
+          <label>
+            <span>seed</span>
+            <input name="seed" inputMode="numeric" value={draft.seed} onChange={(e) => draftSet({ seed: e.target.value })} />
+          </label>
+        </div>
+      )}
     </section>
   );
 }

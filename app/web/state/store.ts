@@ -1,160 +1,108 @@
 /**
- * The page's one store (no React here; state/useApp.ts binds it). Actions are the plain functions
- * below. The Ewald computation itself always runs in the worker behind `ComputeClient`.
+ * The page's one store (no React here; state/useApp.ts binds it). Actions are plain functions: the
+ * small ones below, the computation in pipeline.ts. All numerical work runs in the worker.
  */
 import { createStore } from 'zustand/vanilla';
-import { type Box, boxMake } from '../../../engine/box';
-import { demoSnapshot } from '../../../engine/demo/demoSnapshot';
-import type { EwaldParams } from '../../../engine/ewald/params';
-import { targetsResolve } from '../../../engine/targets';
-import { CancelledError, type ComputeClient, WorkerCrashError } from '../worker/client';
-import { type Draft, DEFAULT_DRAFT, draftParse } from './settings';
-import { type AccelerationSummary, accelerationSummary } from './summary';
+import type { MethodId } from '../methods/registry';
+import { type ArrowMode, DEFAULT_DRAFT, type Draft, type ViewDraft } from './settings';
+import type { Comparison, ConvergenceRun, MethodRun, NeighbourRun, Snapshot } from './types';
 
-export type Status = 'idle' | 'computing' | 'done' | 'cancelled' | 'error';
-
-export interface Snapshot {
-  /** Where the particles came from, in words. */
-  readonly source: string;
-  readonly seed: number;
-  readonly n: number;
-  readonly positions: Float64Array;
-  readonly masses: Float64Array;
-  readonly box: Box;
-  readonly totalMass: number;
-}
-
-/** A finished computation. */
-export interface RunRecord {
-  readonly targets: Int32Array;
-  readonly acc: Float64Array;
-  readonly phi: Float64Array;
-  readonly params: EwaldParams;
-  readonly wrapped: number;
-  /** Request to result, as seen by the page (ms), and the part spent in the worker. */
-  readonly wallMs: number;
-  readonly workerMs: number;
-  readonly summary: AccelerationSummary;
-}
+export type Status = 'idle' | 'loading' | 'computing' | 'done' | 'cancelled' | 'error';
 
 export interface AppState {
   readonly draft: Draft;
   readonly snapshot: Snapshot | null;
   readonly status: Status;
+  /** What is being done now ("Ewald reference", "reading file"…), shown beside the progress bar. */
+  readonly phase: string;
   /** One line about the status (an error, how long a run took, what cancelling kept). */
   readonly message: string;
   /** Fraction done of the running computation, in [0, 1]. */
   readonly progress: number;
-  readonly run: RunRecord | null;
+  /** Finished method runs by key (re-used when methods are toggled back). */
+  readonly runs: Readonly<Record<string, MethodRun>>;
+  readonly neighbours: Readonly<Record<string, NeighbourRun>>;
+  readonly comparison: Comparison | null;
+  readonly convergence: ConvergenceRun | null;
+  readonly convergenceStatus: 'idle' | 'computing' | 'done' | 'cancelled' | 'error';
+  readonly convergenceMessage: string;
+  /** Picked target (index into comparison.targets), and a request to fly the 3D view to one. */
+  readonly selected: number | null;
+  readonly flyTo: { readonly target: number; readonly nonce: number } | null;
+  /** A shared link named a file the page does not hold: its name, size and the link's settings. */
+  readonly wantedFile: { readonly name: string; readonly n: number | null; readonly draft: Draft } | null;
+  /** Measured ÷ modelled time per method kind (refined after every run). */
+  readonly calibration: Readonly<Record<string, number>>;
   /** Id of the latest computation started; replies for older ones are dropped. */
   readonly computeId: number;
   readonly startedAt: number;
 }
 
 export function appStateInitial(draft: Draft = DEFAULT_DRAFT): AppState {
-  return { draft, snapshot: null, status: 'idle', message: '', progress: 0, run: null, computeId: 0, startedAt: 0 };
+  return {
+    draft,
+    snapshot: null,
+    status: 'idle',
+    phase: '',
+    message: '',
+    progress: 0,
+    runs: {},
+    neighbours: {},
+    comparison: null,
+    convergence: null,
+    convergenceStatus: 'idle',
+    convergenceMessage: '',
+    selected: null,
+    flyTo: null,
+    wantedFile: null,
+    calibration: {},
+    computeId: 0,
+    startedAt: 0,
+  };
 }
 
 export const appStore = createStore<AppState>()(() => appStateInitial());
 
-let client: ComputeClient | null = null;
-
-/** Connects the store to the worker client (the page passes a real one, tests a fake). */
-export function computeClientSet(next: ComputeClient | null): void {
-  client = next;
-}
-
-/** Replaces the store's state (used at page start with the URL's draft, and by tests). */
+/** Replaces the store's state (page start, tests). */
 export function appReset(draft: Draft = DEFAULT_DRAFT): void {
   appStore.setState(appStateInitial(draft), true);
 }
 
-/** Changes form fields; nothing is checked until Compute. */
-export function draftSet(patch: Partial<Draft>): void {
+/** Changes run fields of the form; nothing is checked until Compute. */
+export function draftSet(patch: Partial<Omit<Draft, 'a' | 'b' | 'view'>>): void {
   appStore.setState((s) => ({ draft: { ...s.draft, ...patch } }));
 }
 
-function demoLoad(n: number, seed: number): Snapshot {
-  const d = demoSnapshot(n, seed);
-  let totalMass = 0;
-  for (let i = 0; i < d.masses.length; i++) totalMass += d.masses[i];
-  return {
-    source: `built-in demo “three knots and a thread”`,
-    seed,
-    n,
-    positions: d.positions,
-    masses: d.masses,
-    box: boxMake(d.box),
-    totalMass,
-  };
+/** Chooses the method of slot A or B. */
+export function slotMethodSet(slot: 'a' | 'b', method: MethodId): void {
+  appStore.setState((s) => ({ draft: { ...s.draft, [slot]: { ...s.draft[slot], method } } }));
 }
 
-function fail(message: string): void {
-  appStore.setState({ status: 'error', message, progress: 0 });
+/** Changes one parameter of slot A or B. */
+export function slotParamSet(slot: 'a' | 'b', key: string, value: string): void {
+  appStore.setState((s) => ({ draft: { ...s.draft, [slot]: { ...s.draft[slot], params: { ...s.draft[slot].params, [key]: value } } } }));
 }
 
-/**
- * Checks the form, (re)makes the demo snapshot when its size or seed changed, and starts the Ewald
- * computation in the worker, cancelling one that runs. Resolves when this computation has ended.
- */
-export function computeStart(): Promise<void> {
-  const state = appStore.getState();
-  if (!client) {
-    fail('the compute worker is not available');
-    return Promise.resolve();
-  }
-  let snapshot = state.snapshot;
-  let targets: Int32Array | null = null;
-  let tol: number;
-  try {
-    const settings = draftParse(state.draft);
-    tol = settings.tol;
-    if (!snapshot || snapshot.n !== settings.n || snapshot.seed !== settings.seed) snapshot = demoLoad(settings.n, settings.seed);
-    if (settings.targets !== null) targets = targetsResolve({ kind: 'sample', count: settings.targets, seed: settings.seed }, snapshot.n);
-  } catch (e) {
-    fail(e instanceof Error ? e.message : String(e));
-    return Promise.resolve();
-  }
-  const id = state.computeId + 1;
-  const startedAt = performance.now();
-  appStore.setState({ snapshot, status: 'computing', message: '', progress: 0, run: null, computeId: id, startedAt });
-  const current = () => appStore.getState().computeId === id;
-  const job = {
-    // copies: the originals stay with the page while these buffers move to the worker
-    positions: snapshot.positions.slice(),
-    masses: snapshot.masses.slice(),
-    box: snapshot.box,
-    targets,
-    options: { tol },
-  };
-  return client
-    .run(job, (fraction) => {
-      if (current()) appStore.setState({ progress: fraction });
-    })
-    .then(
-      (outcome) => {
-        if (!current()) return;
-        const wallMs = performance.now() - startedAt;
-        const run: RunRecord = { ...outcome, wallMs, summary: accelerationSummary(outcome.acc) };
-        appStore.setState({ status: 'done', progress: 1, run, message: '' });
-      },
-      (error: unknown) => {
-        if (!current() || error instanceof CancelledError) return;
-        const text = error instanceof Error ? error.message : String(error);
-        fail(error instanceof WorkerCrashError ? `${text} (a fresh worker has been started)` : text);
-      },
-    );
+/** Swaps slots A and B. */
+export function slotsSwap(): void {
+  appStore.setState((s) => ({ draft: { ...s.draft, a: s.draft.b, b: s.draft.a } }));
 }
 
-/** Cancels the running computation: its worker is terminated and replaced; the snapshot stays. */
-export function computeCancel(): void {
-  const s = appStore.getState();
-  if (s.status !== 'computing' || !client) return;
-  client.cancel();
-  appStore.setState({
-    status: 'cancelled',
-    progress: 0,
-    computeId: s.computeId + 1,
-    message: `stopped after ${((performance.now() - s.startedAt) / 1000).toFixed(1)} s; the snapshot is kept`,
-  });
+/** Changes how the comparison is shown (no recomputation). */
+export function viewSet(patch: Partial<ViewDraft>): void {
+  appStore.setState((s) => ({ draft: { ...s.draft, view: { ...s.draft.view, ...patch } } }));
+}
+
+export function arrowsSet(arrows: ArrowMode): void {
+  viewSet({ arrows });
+}
+
+/** Picks a target of the comparison (null: none). */
+export function select(target: number | null): void {
+  appStore.setState({ selected: target });
+}
+
+/** Picks a target and asks the 3D view to fly to it. */
+export function flyToTarget(target: number): void {
+  appStore.setState((s) => ({ selected: target, flyTo: { target, nonce: (s.flyTo?.nonce ?? 0) + 1 } }));
 }

@@ -1,11 +1,10 @@
 /**
- * The page's handle on the compute worker: one computation at a time. Cancelling terminates the
- * worker and starts a fresh one; starting a computation while one runs cancels the first; a worker
- * that crashes is replaced and its computation fails with the crash message.
+ * The page's handle on the compute worker: one request at a time. Cancelling terminates the worker and
+ * starts a fresh one; a new request while one runs cancels the first; a worker that crashes is replaced
+ * and its request fails with the crash message. The page's own data are never in the worker's hands
+ * alone: requests carry copies, so a lost worker loses nothing.
  */
-import type { Box } from '../../../engine/box';
-import type { EwaldOptions } from '../../../engine/ewald/params';
-import type { EwaldReply, WorkerReply, WorkerRequest } from './protocol';
+import { type RequestBody, type ResultPayload, type WorkerReply, type WorkerRequest, transferables } from './protocol';
 
 /** What the client needs from a worker; `workerSpawn` adapts a real Worker, tests pass fakes. */
 export interface WorkerPort {
@@ -16,18 +15,13 @@ export interface WorkerPort {
 /** Starts a worker whose replies go to `onReply` and whose uncaught failures go to `onCrash`. */
 export type WorkerSpawn = (onReply: (reply: WorkerReply) => void, onCrash: (message: string) => void) => WorkerPort;
 
-/** The input of one computation. Its buffers are moved to the worker: pass copies you can lose. */
-export interface EwaldJob {
-  readonly positions: Float64Array;
-  readonly masses: Float64Array;
-  readonly box: Box;
-  readonly targets: Int32Array | null;
-  readonly options: EwaldOptions;
+/** A finished request: its payload and the time spent in the worker (ms). */
+export interface Outcome<P extends ResultPayload = ResultPayload> {
+  readonly payload: P;
+  readonly workerMs: number;
 }
 
-export type EwaldOutcome = Omit<EwaldReply, 'type' | 'id'>;
-
-/** The computation was cancelled (by `cancel()` or by a newer `run()`). */
+/** The request was cancelled (by `cancel()` or by a newer `run()`). */
 export class CancelledError extends Error {
   constructor() {
     super('computation cancelled');
@@ -44,9 +38,12 @@ export class WorkerCrashError extends Error {
 }
 
 export interface ComputeClient {
-  /** Runs one computation; rejects with CancelledError, WorkerCrashError or the engine's error. */
-  run(job: EwaldJob, onProgress?: (fraction: number) => void): Promise<EwaldOutcome>;
-  /** Cancels the running computation (terminating its worker); false when nothing was running. */
+  /**
+   * Runs one request; its typed arrays are moved to the worker (pass copies you can lose). Rejects with
+   * CancelledError, WorkerCrashError or the engine's error.
+   */
+  run(request: RequestBody, onProgress?: (fraction: number) => void): Promise<Outcome>;
+  /** Cancels the running request (terminating its worker); false when nothing was running. */
   cancel(): boolean;
   busy(): boolean;
   /** Terminates the worker for good. */
@@ -55,7 +52,7 @@ export interface ComputeClient {
 
 interface Pending {
   readonly id: number;
-  readonly resolve: (outcome: EwaldOutcome) => void;
+  readonly resolve: (outcome: Outcome) => void;
   readonly reject: (error: Error) => void;
   readonly onProgress?: (fraction: number) => void;
 }
@@ -95,8 +92,7 @@ export function computeClientCreate(spawn: WorkerSpawn): ComputeClient {
     if (reply.type === 'progress') {
       pending.onProgress?.(reply.fraction);
     } else if (reply.type === 'result') {
-      const { type: _t, id: _i, ...outcome } = reply;
-      settle()!.resolve(outcome);
+      settle()!.resolve({ payload: reply.payload, workerMs: reply.workerMs });
     } else {
       const err = new Error(reply.message);
       err.name = reply.name;
@@ -129,18 +125,16 @@ export function computeClientCreate(spawn: WorkerSpawn): ComputeClient {
   let disposed = false;
 
   return {
-    run(job, onProgress) {
+    run(body, onProgress) {
       if (disposed) return Promise.reject(new Error('compute client was disposed'));
       cancel();
       port ??= start();
       const id = nextId++;
-      return new Promise<EwaldOutcome>((resolve, reject) => {
+      return new Promise<Outcome>((resolve, reject) => {
         pending = { id, resolve, reject, onProgress };
-        const request: WorkerRequest = { type: 'ewald', id, ...job };
-        const transfer: ArrayBuffer[] = [job.positions.buffer as ArrayBuffer, job.masses.buffer as ArrayBuffer];
-        if (job.targets) transfer.push(job.targets.buffer as ArrayBuffer);
+        const request = { ...body, id } as WorkerRequest;
         try {
-          port!.post(request, transfer);
+          port!.post(request, transferables(body));
         } catch (e) {
           settle();
           reject(e instanceof Error ? e : new Error(String(e)));

@@ -6,5 +6,5 @@ import type { WorkerRequest } from './protocol';
 const scope = self as unknown as DedicatedWorkerGlobalScope;
 
 scope.onmessage = (event: MessageEvent<WorkerRequest>) => {
-  handleRequest(event.data, (reply, transfer) => scope.postMessage(reply, transfer));
+  void handleRequest(event.data, (reply, transfer) => scope.postMessage(reply, transfer));
 };

@@ -1,23 +1,136 @@
 /**
  * Messages between the page and the compute worker. Typed arrays travel as transfers (their buffers
- * move, they are not copied); `id` ties every reply to the request that caused it.
+ * move, they are not copied); `id` ties every reply to the request that caused it. Each request type
+ * is one engine call (or one short loop of engine calls); its result comes back as one payload.
  */
 import type { Box } from '../../../engine/box';
 import type { EwaldOptions, EwaldParams } from '../../../engine/ewald/params';
+import type { MeshOptions, MeshParams } from '../../../engine/codeUnderTest/meshForces';
+import type { CdfPoints, LogHistogram } from '../../../engine/stats/bins';
+import type { ErrorSummary } from '../../../engine/stats/errorSummary';
 
-/** Ewald accelerations and potentials for `targets` (input rows; null = all particles). */
-export interface EwaldRequest {
-  readonly type: 'ewald';
-  readonly id: number;
+interface ParticlesIn {
   /** Flat xyz, length units. */
   readonly positions: Float64Array;
   readonly masses: Float64Array;
   readonly box: Box;
+  /** Input rows to compute for; null = all particles. */
   readonly targets: Int32Array | null;
+}
+
+/** Ewald accelerations and potentials (the reference). */
+export interface EwaldRequest extends ParticlesIn {
+  readonly type: 'ewald';
   readonly options: EwaldOptions;
 }
 
-export type WorkerRequest = EwaldRequest;
+/** The coarse particle-mesh "code under test". */
+export interface MeshRequest extends ParticlesIn {
+  readonly type: 'mesh';
+  readonly options: MeshOptions;
+}
+
+/** The same method at several parameter sets, for the same targets (convergence plots). */
+export type SweepRequest =
+  | (ParticlesIn & { readonly type: 'sweep'; readonly method: 'ewald'; readonly options: readonly EwaldOptions[] })
+  | (ParticlesIn & { readonly type: 'sweep'; readonly method: 'mesh'; readonly options: readonly MeshOptions[] });
+
+/** Nearest-neighbour distances and local densities of the targets. */
+export interface NeighboursRequest {
+  readonly type: 'neighbours';
+  readonly positions: Float64Array;
+  readonly box: Box;
+  readonly targets: Int32Array | null;
+  readonly k: number;
+}
+
+/** Statistics of A against reference B (flat xyz, 3 per target). */
+export interface CompareRequest {
+  readonly type: 'compare';
+  readonly accA: Float64Array;
+  readonly accB: Float64Array;
+  readonly worst: number;
+}
+
+/** Parse a snapshot file (bytes of the whole file). */
+export interface ReadRequest {
+  readonly type: 'read';
+  readonly bytes: Uint8Array;
+  readonly fileName: string;
+}
+
+/** The built-in demo snapshot (engine/demo), for sizes too large to make on the page's thread. */
+export interface DemoRequest {
+  readonly type: 'demo';
+  readonly n: number;
+  readonly seed: number;
+}
+
+export type RequestBody = DemoRequest | EwaldRequest | MeshRequest | SweepRequest | NeighboursRequest | CompareRequest | ReadRequest;
+export type WorkerRequest = RequestBody & { readonly id: number };
+
+export interface ForcesPayload {
+  readonly kind: 'forces';
+  /** Targets (input rows) in output order. */
+  readonly targets: Int32Array;
+  /** Accelerations, 3 per target (G·mass/length²). */
+  readonly acc: Float64Array;
+  /** Potentials per target (Ewald only; zero-mean convention). */
+  readonly phi: Float64Array | null;
+  readonly ewald: EwaldParams | null;
+  readonly mesh: MeshParams | null;
+  /** Particles that lay outside the home cell and were wrapped. */
+  readonly wrapped: number;
+}
+
+export interface SweepPayload {
+  readonly kind: 'sweep';
+  readonly targets: Int32Array;
+  /** One acceleration set (3 per target) per parameter set, in request order. */
+  readonly acc: Float64Array[];
+  readonly ewald: (EwaldParams | null)[];
+  readonly mesh: (MeshParams | null)[];
+}
+
+export interface NeighboursPayload {
+  readonly kind: 'neighbours';
+  readonly nearest: Float64Array;
+  readonly kth: Float64Array;
+  readonly density: Float64Array;
+  readonly kUsed: number;
+  readonly meanDensity: number;
+}
+
+export interface ComparePayload {
+  readonly kind: 'compare';
+  readonly relative: Float64Array;
+  readonly summary: ErrorSummary;
+  readonly histogram: LogHistogram;
+  readonly cdf: CdfPoints;
+}
+
+export interface ReadPayload {
+  readonly kind: 'read';
+  readonly format: string;
+  readonly count: number;
+  readonly positions: Float64Array;
+  readonly masses: Float64Array;
+  readonly accelerations: Float64Array | null;
+  readonly ids: Float64Array | null;
+  readonly columns: readonly string[];
+  readonly massColumn: string | null;
+  /** The columns read as accelerations, or null when the file has none recognised. */
+  readonly accelerationColumns: readonly [string, string, string] | null;
+  readonly idColumn: string | null;
+}
+
+export interface DemoPayload {
+  readonly kind: 'demo';
+  readonly positions: Float64Array;
+  readonly masses: Float64Array;
+}
+
+export type ResultPayload = DemoPayload | ForcesPayload | SweepPayload | NeighboursPayload | ComparePayload | ReadPayload;
 
 /** Fraction done in [0, 1]; sent at most every PROGRESS_STEP and always at 1. */
 export interface ProgressReply {
@@ -26,18 +139,10 @@ export interface ProgressReply {
   readonly fraction: number;
 }
 
-export interface EwaldReply {
+export interface ResultReply {
   readonly type: 'result';
   readonly id: number;
-  /** Targets (input rows) in output order. */
-  readonly targets: Int32Array;
-  /** Accelerations, 3 per target (G·mass/length²). */
-  readonly acc: Float64Array;
-  /** Potentials per target (G·mass/length), zero-mean convention. */
-  readonly phi: Float64Array;
-  readonly params: EwaldParams;
-  /** Particles that lay outside the home cell and were wrapped. */
-  readonly wrapped: number;
+  readonly payload: ResultPayload;
   /** Time spent inside the worker on this request (ms). */
   readonly workerMs: number;
 }
@@ -50,7 +155,20 @@ export interface ErrorReply {
   readonly message: string;
 }
 
-export type WorkerReply = ProgressReply | EwaldReply | ErrorReply;
+export type WorkerReply = ProgressReply | ResultReply | ErrorReply;
 
 /** Progress messages are sent when the fraction has grown by at least this much (2 %). */
 export const PROGRESS_STEP = 0.02;
+
+/** Buffers of the typed arrays among an object's own values and arrays of them (each buffer once). */
+export function transferables(obj: object): ArrayBuffer[] {
+  const out = new Set<ArrayBuffer>();
+  const add = (v: unknown) => {
+    if (ArrayBuffer.isView(v) && v.buffer instanceof ArrayBuffer && v.buffer.byteLength > 0) out.add(v.buffer);
+  };
+  for (const v of Object.values(obj)) {
+    if (Array.isArray(v)) v.forEach(add);
+    else add(v);
+  }
+  return [...out];
+}
