@@ -9,3 +9,4 @@ export * from './demo/demoSnapshot';
 export * from './formats/index';
 export * from './orders/index';
 export * from './units';
+export * from './pme/index';

@@ -9,7 +9,7 @@ const root = resolve(import.meta.dirname, '..');
 process.chdir(root);
 if (!existsSync('dist-cli/forceWorker.mjs')) execFileSync('npm', ['run', '--silent', 'build:cli'], { stdio: 'inherit' });
 mkdirSync('dist-bench', { recursive: true });
-const benches = ['ewaldBench', 'ordersBench', 'loadBench'];
+const benches = ['ewaldBench', 'ordersBench', 'loadBench', 'pmeBench'];
 for (const name of benches) {
   await build({
     entryPoints: [`scripts/bench/${name}.ts`],
