@@ -14,6 +14,9 @@ export interface KSpaceWasm {
   targets(ws: Float64Array, targets: Int32Array, begin: number, end: number, acc: Float64Array, phi: Float64Array): void;
 }
 
+/** Particles (or targets) per kernel call. */
+const CALL_PARTICLES = 128;
+
 /** Creates the WebAssembly context, or returns null when WebAssembly SIMD is unavailable. */
 export function kSpaceWasmCreate(ks: KSpace, box: Box, positions: Float64Array, masses: Float64Array): KSpaceWasm | null {
   const k = kernelInstance();
@@ -43,7 +46,11 @@ export function kSpaceWasmCreate(ks: KSpace, box: Box, positions: Float64Array, 
     structureFactor(begin, end, s) {
       arena.f64(pSr, nk).fill(0);
       arena.f64(pSi, nk).fill(0);
-      k.structureFactor(pPos, pMass, begin, end, nCol, ...pCols, Hx, Hy, Hz, tx, ty, tz, pSr, pSi, scratch);
+      // Many short calls rather than one long one: engines tier a wasm function up to optimised code
+      // between calls, not inside one.
+      for (let b = begin; b < end; b += CALL_PARTICLES) {
+        k.structureFactor(pPos, pMass, b, Math.min(end, b + CALL_PARTICLES), nCol, ...pCols, Hx, Hy, Hz, tx, ty, tz, pSr, pSi, scratch);
+      }
       const sr = arena.f64(pSr, nk), si = arena.f64(pSi, nk);
       for (let q = 0; q < nk; q++) {
         s[2 * q] += sr[q];
@@ -74,7 +81,10 @@ export function kSpaceWasmCreate(ks: KSpace, box: Box, positions: Float64Array, 
       arena.f64(pAcc, 3 * m).fill(0);
       arena.f64(pPhi, m).fill(0);
       // The kernel indexes acc by t; shift the base so that t = begin lands at the chunk's start.
-      k.fourierTargets(pPos, pTargets, begin, end, nCol, ...pCols, Hx, Hy, Hz, tx, ty, tz, pSr, pSi, pAcc - 24 * begin, pPhi - 8 * begin, scratch);
+      for (let b = begin; b < end; b += CALL_PARTICLES) {
+        const e = Math.min(end, b + CALL_PARTICLES);
+        k.fourierTargets(pPos, pTargets, b, e, nCol, ...pCols, Hx, Hy, Hz, tx, ty, tz, pSr, pSi, pAcc - 24 * begin, pPhi - 8 * begin, scratch);
+      }
       const a = arena.f64(pAcc, 3 * m), p = arena.f64(pPhi, m);
       for (let t = 0; t < m; t++) {
         acc[3 * (begin + t)] += a[3 * t];

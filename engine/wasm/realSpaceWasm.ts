@@ -18,6 +18,8 @@ export interface RealSpaceWasm {
 }
 
 const SOFT_KIND = { none: 0, plummer: 1, spline: 2 } as const;
+/** Particles (about) per kernel call. */
+const CALL_PARTICLES = 128;
 
 /** Creates the WebAssembly context, or null when WebAssembly SIMD is unavailable. */
 export function realSpaceWasmCreate(cells: CellList, box: Box, k: RealSpaceKernel): RealSpaceWasm | null {
@@ -51,7 +53,11 @@ export function realSpaceWasmCreate(cells: CellList, box: Box, k: RealSpaceKerne
   return {
     allChunk(cellBegin, cellEnd) {
       setKernel();
-      x.realSpaceAll(cellBegin, cellEnd, nx, ny, nz, box.lx, box.ly, box.lz, cells.w[0], cells.w[1], cells.w[2], pStart, pStencil, cells.halfCount, ...soa, ...acc);
+      // Many short calls rather than one long one (wasm tier-up happens between calls).
+      const step = Math.max(1, Math.ceil((CALL_PARTICLES * nCells) / Math.max(1, n)));
+      for (let c = cellBegin; c < cellEnd; c += step) {
+        x.realSpaceAll(c, Math.min(cellEnd, c + step), nx, ny, nz, box.lx, box.ly, box.lz, cells.w[0], cells.w[1], cells.w[2], pStart, pStencil, cells.halfCount, ...soa, ...acc);
+      }
     },
     allCollect(accSorted, phiSorted) {
       const [ax, ay, az, ph] = acc.map((p) => arena.f64(p, n));
@@ -79,8 +85,11 @@ export function realSpaceWasmCreate(cells: CellList, box: Box, k: RealSpaceKerne
       }
       arena.f64(pOut, 3 * m).fill(0);
       arena.f64(pPhi, m).fill(0);
-      x.realSpaceTargets(pTslot, begin, end, nx, ny, nz, box.lx, box.ly, box.lz, cells.w[0], cells.w[1], cells.w[2],
-        pStart, pStencil, cells.stencil.length / 3, ...soa, pOut, pPhi);
+      for (let b = begin; b < end; b += CALL_PARTICLES) {
+        // The kernel writes acc/phi relative to its own begin: offset the output pointers.
+        x.realSpaceTargets(pTslot, b, Math.min(end, b + CALL_PARTICLES), nx, ny, nz, box.lx, box.ly, box.lz, cells.w[0], cells.w[1], cells.w[2],
+          pStart, pStencil, cells.stencil.length / 3, ...soa, pOut + 24 * (b - begin), pPhi + 8 * (b - begin));
+      }
       const a = arena.f64(pOut, 3 * m), p = arena.f64(pPhi, m);
       for (let t = 0; t < m; t++) {
         out[3 * (begin + t)] += a[3 * t];
