@@ -54,7 +54,8 @@ export class EngineInputError extends Error {
   }
 }
 
-function validateArrays(positions: Float64Array, masses: Float64Array): void {
+/** Checks flat positions (3N) against masses (N) and that every value is finite; throws EngineInputError. */
+export function particlesValidate(positions: Float64Array, masses: Float64Array): void {
   if (positions.length !== 3 * masses.length) {
     throw new EngineInputError(`positions hold ${positions.length} numbers but ${masses.length} masses need ${3 * masses.length}`);
   }
@@ -103,7 +104,7 @@ export function ewaldSetup(
   targetCount: number = masses.length,
 ): EwaldSetup {
   boxMake(box.lx, box.ly, box.lz); // throws a RangeError naming a side that is not > 0
-  validateArrays(positions, masses);
+  particlesValidate(positions, masses);
   const wrappedPositions = Float64Array.from(positions);
   const wrapped = positionsWrap(wrappedPositions, box);
   const chosen = ewaldParamsChoose(wrappedPositions, masses, box, options, targetCount);

@@ -14,7 +14,7 @@
  */
 import { type Box, boxVolume, positionsWrap } from '../box';
 import { type CellList, cellListBuild } from '../ewald/cellList';
-import { EngineInputError, type Progress } from '../ewald/ewald';
+import { EngineInputError, type Progress, particlesValidate } from '../ewald/ewald';
 import { kernelTableBuild } from '../ewald/kernelTable';
 import { type RealSpaceKernel, realSpaceAllSorted } from '../ewald/realSpace';
 import { type RealSpaceWasm, realSpaceWasmCreate } from '../wasm/realSpaceWasm';
@@ -61,26 +61,13 @@ export interface PmeSetup {
   allSorted?: { acc: Float64Array; phi: Float64Array };
 }
 
-function validateArrays(positions: Float64Array, masses: Float64Array): void {
-  if (positions.length !== 3 * masses.length) {
-    throw new EngineInputError(`positions hold ${positions.length} numbers but ${masses.length} masses need ${3 * masses.length}`);
-  }
-  for (let i = 0; i < masses.length; i++) {
-    if (!Number.isFinite(masses[i])) throw new EngineInputError(`mass of particle ${i} is not finite (${masses[i]})`, i);
-    for (let d = 0; d < 3; d++) {
-      const v = positions[3 * i + d];
-      if (!Number.isFinite(v)) throw new EngineInputError(`coordinate ${'xyz'[d]} of particle ${i} is not finite (${v})`, i);
-    }
-  }
-}
-
 /**
  * Prepares a run: wraps positions (length units) into the box, measures clustering, chooses α, r_c, mesh
  * and order for the requested tolerance, builds the cell list, kernel table, FFT plans and influence
  * tables. Masses may be signed.
  */
 export function pmeSetup(positions: Float64Array, masses: Float64Array, box: Box, options: PmeOptions = {}): PmeSetup {
-  validateArrays(positions, masses);
+  particlesValidate(positions, masses);
   const wrappedPositions = Float64Array.from(positions);
   const wrapped = positionsWrap(wrappedPositions, box);
   const opts = pmeOptionsResolve(options);
@@ -149,7 +136,7 @@ function setupFromParams(
  * (pmePredictedErrors needs the original setup).
  */
 export function pmeSetupPinned(wrappedPositions: Float64Array, masses: Float64Array, box: Box, params: PmeParams): PmeSetup {
-  validateArrays(wrappedPositions, masses);
+  particlesValidate(wrappedPositions, masses);
   return setupFromParams(wrappedPositions, masses, box, params, 0, null);
 }
 
