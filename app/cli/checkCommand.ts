@@ -10,7 +10,7 @@ import { EngineInputError } from '../../engine/ewald/ewald';
 import { type CsvColumn, csvChunks } from '../../engine/formats/csvWrite';
 import { LOAD_LIMIT_BYTES } from '../../engine/formats/description';
 import { snapshotValidate } from '../../engine/formats/validate';
-import { type TargetSpec, targetsResolve } from '../../engine/targets';
+import { targetsResolve } from '../../engine/targets';
 import { UNIT_PRESETS, type UnitPreset, unitPresetFind } from '../../engine/units';
 import { type OptionSpec, argsParse } from './argParse';
 import { outputProblem, outputWriteAtomic } from './atomicOutput';
@@ -20,7 +20,7 @@ import { CliError, UsageError } from './cliErrors';
 import type { CliIo } from './cliIo';
 import { engineErrorExplain, outsideWarning, targetIds } from './engineErrors';
 import { mappingFromOptions, sizeParse } from './mappingOptions';
-import { boxParse, integerParse, positiveParse, softeningParse, targetsCountParse, tolParse } from './optionValues';
+import { boxParse, integerParse, positiveParse, softeningParse, targetSpecParse, tolParse } from './optionValues';
 import { defaultThreads, ewaldForcesThreads } from './parallelEwald';
 import { progressLine } from './progress';
 import { particlePlace, snapshotFileRead } from './snapshotFile';
@@ -84,19 +84,6 @@ async function fileSha256(path: string): Promise<string> {
   return hash.digest('hex');
 }
 
-function targetSpec(values: ReadonlyMap<string, string>): TargetSpec {
-  const sample = values.get('sample');
-  const seed = values.get('seed');
-  const targetsText = values.get('targets');
-  if (sample !== undefined) {
-    if (targetsText !== undefined) throw new UsageError('give either --targets or --sample, not both', COMMAND);
-    return { kind: 'sample', count: integerParse(sample, 'sample', COMMAND, 1), seed: seed === undefined ? 1 : integerParse(seed, 'seed', COMMAND, 0, 2 ** 32 - 1) };
-  }
-  if (seed !== undefined) throw new UsageError('--seed only applies together with --sample', COMMAND);
-  const k = targetsText === undefined ? 'all' : targetsCountParse(targetsText, COMMAND);
-  return k === 'all' ? { kind: 'all' } : { kind: 'first', count: k };
-}
-
 function outputCheck(option: string, path: string | undefined, input: string, others: readonly (string | undefined)[]): void {
   if (path === undefined) return;
   if (path === '') throw new UsageError(`--${option} needs a file name`, COMMAND);
@@ -122,7 +109,7 @@ export async function checkRun(argv: readonly string[], io: CliIo, helpText: () 
   if (requirements.length === 0) throw new UsageError('at least one --require KEY OP LIMIT is needed, e.g. --require "p99<=0.01"', COMMAND);
   const reference = values.get('reference');
   if (reference !== undefined && reference.trim().toLowerCase() !== 'ewald') throw new UsageError(`--reference: unknown method ${JSON.stringify(reference)}; the only reference is ewald`, COMMAND);
-  const spec = targetSpec(values);
+  const spec = targetSpecParse(values, COMMAND, 'all');
   const G = values.get('G');
   const unitsText = values.get('units');
   if (G !== undefined && unitsText !== undefined) throw new UsageError('give either --units or --G, not both (a preset sets G)', COMMAND);

@@ -7,7 +7,7 @@ import { resolve } from 'node:path';
 import { LOAD_LIMIT_BYTES } from '../../engine/formats/description';
 import { snapshotValidate } from '../../engine/formats/validate';
 import type { ImageSumResult } from '../../engine/orders';
-import { type TargetSpec, targetsResolve } from '../../engine/targets';
+import { targetsResolve } from '../../engine/targets';
 import { UNIT_PRESETS, unitPresetFind } from '../../engine/units';
 import { type OptionSpec, argsParse } from './argParse';
 import { outputProblem, outputWriteAtomic } from './atomicOutput';
@@ -15,7 +15,7 @@ import { CliError, UsageError } from './cliErrors';
 import type { CliIo } from './cliIo';
 import { outsideWarning, targetIds, withEngineErrors } from './engineErrors';
 import { mappingFromOptions, sizeParse } from './mappingOptions';
-import { boxParse, integerParse, numberParse, positiveParse, targetsCountParse } from './optionValues';
+import { boxParse, integerParse, numberParse, positiveParse, targetSpecParse } from './optionValues';
 import { ORDER_OPTIONS, imageSumRun, orderEngineOptions, orderSettings } from './orderOptions';
 import { progressLine } from './progress';
 import { snapshotFileRead } from './snapshotFile';
@@ -60,19 +60,6 @@ export const CONVERGE_OPTIONS: readonly OptionSpec[] = [
   { name: 'every', metavar: 'K', help: 'read every K-th particle only, masses multiplied by N/N_kept', defaultText: '1' },
   { name: 'help', help: 'show this help' },
 ];
-
-function targetSpec(values: ReadonlyMap<string, string>): TargetSpec {
-  const sample = values.get('sample');
-  const seed = values.get('seed');
-  const targetsText = values.get('targets');
-  if (sample !== undefined) {
-    if (targetsText !== undefined) throw new UsageError('give either --targets or --sample, not both', COMMAND);
-    return { kind: 'sample', count: integerParse(sample, 'sample', COMMAND, 1), seed: seed === undefined ? 1 : integerParse(seed, 'seed', COMMAND, 0, 2 ** 32 - 1) };
-  }
-  if (seed !== undefined) throw new UsageError('--seed only applies together with --sample', COMMAND);
-  const k = targetsText === undefined ? CONVERGE_DEFAULT_TARGETS : targetsCountParse(targetsText, COMMAND);
-  return k === 'all' ? { kind: 'all' } : { kind: 'first', count: k };
-}
 
 function gParse(values: ReadonlyMap<string, string>): number {
   const G = values.get('G');
@@ -126,7 +113,7 @@ export async function convergeRun(argv: readonly string[], io: CliIo, helpText: 
   const out = values.get('out');
   if (out === undefined || out === '') throw new UsageError('--out FILE.csv is required', COMMAND);
   const order = orderSettings(values, COMMAND, true);
-  const spec = targetSpec(values);
+  const spec = targetSpecParse(values, COMMAND, CONVERGE_DEFAULT_TARGETS);
   const G = gParse(values);
   const tolText = values.get('tol');
   const tol = tolText === undefined ? undefined : tolParseOrders(tolText);

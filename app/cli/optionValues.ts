@@ -4,6 +4,7 @@
  */
 import { type Box } from '../../engine/box';
 import type { Softening } from '../../engine/softening';
+import type { TargetSpec } from '../../engine/targets';
 import { UsageError } from './cliErrors';
 
 const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
@@ -74,4 +75,21 @@ export function targetsCountParse(text: string, command: string): number | 'all'
   const v = DECIMAL.test(t) ? Number(t) : NaN;
   if (!Number.isInteger(v) || v < 1) throw new UsageError(`--targets must be all or a positive integer K (the first K particles), got ${JSON.stringify(text)}`, command);
   return v;
+}
+
+/**
+ * --targets all|K or --sample K [--seed S] (not both; --seed only with --sample, default 1); without
+ * either, `fallback` (all, or the first K particles).
+ */
+export function targetSpecParse(values: ReadonlyMap<string, string>, command: string, fallback: number | 'all'): TargetSpec {
+  const sample = values.get('sample');
+  const seed = values.get('seed');
+  const targetsText = values.get('targets');
+  if (sample !== undefined) {
+    if (targetsText !== undefined) throw new UsageError('give either --targets or --sample, not both', command);
+    return { kind: 'sample', count: integerParse(sample, 'sample', command, 1), seed: seed === undefined ? 1 : integerParse(seed, 'seed', command, 0, 2 ** 32 - 1) };
+  }
+  if (seed !== undefined) throw new UsageError('--seed only applies together with --sample', command);
+  const k = targetsText === undefined ? fallback : targetsCountParse(targetsText, command);
+  return k === 'all' ? { kind: 'all' } : { kind: 'first', count: k };
 }
