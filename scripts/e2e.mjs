@@ -20,7 +20,10 @@ const resultsDir = join(root, 'test-results');
 mkdirSync(resultsDir, { recursive: true });
 const only = process.argv[2] ?? '';
 const TEST_TIMEOUT_MS = 60_000;
-const fixtures = join(resultsDir, 'e2e-fixtures');
+const fixtures = join(resultsDir, process.env.TORUSGRAV_E2E_OUT ? `e2e-fixtures-${process.env.TORUSGRAV_E2E_OUT}` : 'e2e-fixtures');
+// Where the app is built and served from: dist/, or dist-e2e-NAME/ with TORUSGRAV_E2E_OUT=NAME (so that
+// several people can run the browser tests in one checkout at once).
+const outDir = process.env.TORUSGRAV_E2E_OUT ? join(root, `dist-e2e-${process.env.TORUSGRAV_E2E_OUT}`) : join(root, 'dist');
 
 const t0 = Date.now();
 const log = (msg) => console.log(`[e2e ${((Date.now() - t0) / 1000).toFixed(1)}s] ${msg}`);
@@ -110,11 +113,11 @@ try {
   if (fx.status !== 0) throw new Error(`fixtures failed: ${fx.stderr || fx.stdout}`);
   log('building (vite build)');
   const { build } = await import('vite');
-  await build({ configFile: join(root, 'vite.config.ts'), logLevel: 'warn' });
+  await build({ configFile: join(root, 'vite.config.ts'), logLevel: 'warn', build: { outDir } });
 
   const port = await freePort();
   const baseUrl = `http://127.0.0.1:${port}/`;
-  server = spawn(join(root, 'node_modules/.bin/vite'), ['preview', '--host', '127.0.0.1', '--port', String(port), '--strictPort'], {
+  server = spawn(join(root, 'node_modules/.bin/vite'), ['preview', '--host', '127.0.0.1', '--port', String(port), '--strictPort', '--outDir', outDir], {
     cwd: root,
     stdio: ['ignore', 'pipe', 'pipe'],
   });
