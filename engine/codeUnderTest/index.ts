@@ -1,3 +1,2 @@
-// The demo's approximate "code under test": a coarse particle-mesh solver and its FFT.
-export * from './fft';
+// The demo's approximate "code under test": a coarse particle-mesh solver (on the PME engine's mesh FFT).
 export * from './meshForces';

@@ -5,11 +5,18 @@
  * mesh of m³ points x = (i·hx, j·hy, k·hz); FFT; Poisson's equation ∇²φ = 4πG(ρ − ρ̄) with the 7-point
  * finite-difference Laplacian, φ_k = −4πG ρ_k/K², K² = Σ_d (2 sin(k_d h_d/2)/h_d)² (no deconvolution, no
  * short-range correction); the centred two-point difference for a = −∇φ, a_k = −i sin(k_d h_d)/h_d · φ_k;
- * three inverse FFTs; CIC interpolation back to the particles (the textbook CIC scheme of H&E ch. 5). Same sign conventions as the Ewald reference (a = −∇φ, mean
- * density removed). Forces are smoothed below about two cells: that is the error pattern it exists for.
+ * three inverse FFTs (the real-to-complex mesh FFT of engine/pme/fft3d.ts, tested there against a
+ * direct DFT); CIC interpolation back to the particles (the textbook CIC scheme of H&E ch. 5). Same sign
+ * conventions as the Ewald reference (a = −∇φ, mean density removed). Forces are smoothed below about
+ * two cells: that is the error pattern it exists for.
  */
 import { type Box, boxVolume } from '../box';
-import { fft3d, isPowerOfTwo } from './fft';
+import { meshFftCreate, meshFftForward, meshFftInverse, meshFftLength, meshFftScratch } from '../pme/fft3d';
+
+/** Whether n is a power of two (n ≥ 1). */
+function isPowerOfTwo(n: number): boolean {
+  return Number.isInteger(n) && n >= 1 && (n & (n - 1)) === 0;
+}
 
 export interface MeshOptions {
   /** Mesh points per side, a power of two from 8 to 256 (default 32). */
@@ -83,30 +90,37 @@ export function meshSetup(positions: Float64Array, masses: Float64Array, box: Bo
     rho[(jx * m + jy) * m + iz] += w * fx * fy * gz;
     rho[(jx * m + jy) * m + jz] += w * fx * fy * fz;
   }
-  const rhoIm = new Float64Array(M3);
-  fft3d(rho, rhoIm, m, m, m);
+  // The real-to-complex mesh FFT of the PME engine: half spectrum k0 = 0 … m/2, slab k0 at k0·2B with
+  // real parts [k2][k1] then imaginary parts [k2][k1] (B = m²); its inverse is unnormalised (× m³).
+  const fft = meshFftCreate([m, m, m]);
+  const scratch = meshFftScratch(fft);
+  const spectrum = new Float64Array(meshFftLength(fft));
+  spectrum.set(rho);
+  meshFftForward(fft, spectrum, scratch);
   // Finite-difference operators in Fourier form: the 7-point Laplacian −K² with K_d = 2 sin(k_d h_d/2)/h_d,
   // and the centred 2-point gradient i·D_d with D_d = sin(k_d h_d)/h_d (zero at the Nyquist frequency).
   const K2 = [0, 1, 2].map((d) => Float64Array.from({ length: m }, (_, i) => (2 * Math.sin((Math.PI * i) / m) / cell[d]) ** 2));
   const D = [0, 1, 2].map((d) => Float64Array.from({ length: m }, (_, i) => Math.sin((2 * Math.PI * i) / m) / cell[d]));
+  const B = m * m;
   const out: Float64Array[] = [];
   for (let d = 0; d < 3; d++) {
-    const re = new Float64Array(M3), im = new Float64Array(M3);
-    for (let i = 0; i < m; i++) {
-      for (let j = 0; j < m; j++) {
-        for (let k = 0; k < m; k++) {
-          const c = (i * m + j) * m + k;
-          if (c === 0) continue; // k = 0: the mean density is removed
-          const kd = d === 0 ? D[0][i] : d === 1 ? D[1][j] : D[2][k];
-          const g = (4 * Math.PI * G * kd) / (K2[0][i] + K2[1][j] + K2[2][k]);
-          // a_k = −i·D_d·φ_k with φ_k = −4πG ρ_k / K²
-          re[c] = -g * rhoIm[c];
-          im[c] = g * rho[c];
+    const a = new Float64Array(spectrum.length);
+    for (let k0 = 0; k0 <= m / 2; k0++) {
+      const base = 2 * B * k0;
+      for (let k2 = 0; k2 < m; k2++) {
+        for (let k1 = 0; k1 < m; k1++) {
+          if (k0 === 0 && k1 === 0 && k2 === 0) continue; // k = 0: the mean density is removed
+          const c = base + k2 * m + k1;
+          const kd = d === 0 ? D[0][k0] : d === 1 ? D[1][k1] : D[2][k2];
+          // a_k = −i·D_d·φ_k with φ_k = −4πG ρ_k / K², and 1/m³ for the unnormalised inverse
+          const g = (4 * Math.PI * G * kd) / ((K2[0][k0] + K2[1][k1] + K2[2][k2]) * M3);
+          a[c] = -g * spectrum[c + B];
+          a[c + B] = g * spectrum[c];
         }
       }
     }
-    fft3d(re, im, m, m, m, true);
-    out.push(re);
+    meshFftInverse(fft, a, scratch);
+    out.push(a.slice(0, M3));
   }
   return { box, params: { mesh: m, cell, G }, ax: out[0], ay: out[1], az: out[2] };
 }
