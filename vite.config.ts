@@ -1,5 +1,6 @@
 import { defineConfig } from 'vitest/config';
 import react from '@vitejs/plugin-react';
+import { offlinePlugin } from './scripts/offline/offlinePlugin.mjs';
 
 // Cross-origin isolation lets the app use SharedArrayBuffer for multi-worker work; the CSP keeps every
 // request on our own origin (the app works offline).
@@ -11,7 +12,7 @@ const securityHeaders = {
 export default defineConfig({
   root: 'app/web',
   publicDir: '../../public',
-  plugins: [react()],
+  plugins: [react(), offlinePlugin()],
   worker: { format: 'es' },
   build: { outDir: '../../dist', emptyOutDir: true, target: 'es2022' },
   server: { headers: securityHeaders },

@@ -2,8 +2,10 @@
 // Browser tests: writes the snapshot files the tests drop (tests/e2e/fixtures.ts), builds the web app,
 // serves dist/ with `vite preview` (one process, stopped at the end), drives Debian's chromium through
 // playwright-core, runs every test exported by tests/e2e/*.mjs and prints "e2e: N passed, M failed".
-// Each test module exports `tests`: { 'name': async (page, baseUrl, ctx) => {} } with ctx = { screenshot,
-// log, fixtures, allowConsoleError(regexp) } (the last for a test that provokes an error on purpose). For every test the runner also fails on console errors, uncaught page errors and any
+// Each test module exports `tests` (and optionally `timeouts`: { 'name': ms } for tests longer than 60 s): { 'name': async (page, baseUrl, ctx) => {} } with ctx = { screenshot,
+// log, fixtures, allowConsoleError(regexp), context, server } (allowConsoleError for a test that provokes an
+// error on purpose; context is the browser context, e.g. for setOffline; server.stop()/start() take the
+// preview server down and bring it back on the same port, for the offline test). For every test the runner also fails on console errors, uncaught page errors and any
 // request that leaves the page's origin. Every page records its long main-thread tasks in
 // window.__longTasks (PerformanceObserver) and its status changes in window.__status. Speed is not
 // asserted here (benchmarks measure it); the tests log what they see. Screenshots go to test-results/.
@@ -18,7 +20,8 @@ const root = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 process.chdir(root);
 const resultsDir = join(root, 'test-results');
 mkdirSync(resultsDir, { recursive: true });
-const only = process.argv[2] ?? '';
+// tests whose "file name" contains any of the arguments (all tests when none is given)
+const only = process.argv.slice(2);
 const TEST_TIMEOUT_MS = 60_000;
 const fixtures = join(resultsDir, process.env.TORUSGRAV_E2E_OUT ? `e2e-fixtures-${process.env.TORUSGRAV_E2E_OUT}` : 'e2e-fixtures');
 // Where the app is built and served from: dist/, or dist-e2e-NAME/ with TORUSGRAV_E2E_OUT=NAME (so that
@@ -56,7 +59,7 @@ async function waitForServer(url, child, ms = 20_000) {
 }
 
 function stopProcess(child) {
-  if (!child || child.exitCode !== null) return Promise.resolve();
+  if (!child || child.exitCode !== null || child.signalCode !== null) return Promise.resolve();
   return new Promise((res) => {
     const timer = setTimeout(() => {
       child.kill('SIGKILL');
@@ -117,20 +120,31 @@ try {
 
   const port = await freePort();
   const baseUrl = `http://127.0.0.1:${port}/`;
-  server = spawn(join(root, 'node_modules/.bin/vite'), ['preview', '--host', '127.0.0.1', '--port', String(port), '--strictPort', '--outDir', outDir], {
-    cwd: root,
-    stdio: ['ignore', 'pipe', 'pipe'],
-  });
-  let serverLog = '';
-  server.stdout.on('data', (d) => (serverLog += d));
-  server.stderr.on('data', (d) => (serverLog += d));
-  try {
-    await waitForServer(baseUrl, server);
-  } catch (e) {
-    console.log(serverLog);
-    throw e;
-  }
-  log(`preview server (pid ${server.pid}) at ${baseUrl}`);
+  const serverStart = async () => {
+    if (server && server.exitCode === null && server.signalCode === null) return;
+    server = spawn(join(root, 'node_modules/.bin/vite'), ['preview', '--host', '127.0.0.1', '--port', String(port), '--strictPort', '--outDir', outDir], {
+      cwd: root,
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
+    let serverLog = '';
+    server.stdout.on('data', (d) => (serverLog += d));
+    server.stderr.on('data', (d) => (serverLog += d));
+    try {
+      await waitForServer(baseUrl, server);
+    } catch (e) {
+      console.log(serverLog);
+      throw e;
+    }
+    log(`preview server (pid ${server.pid}) at ${baseUrl}`);
+  };
+  const serverControl = {
+    start: serverStart,
+    stop: async () => {
+      await stopProcess(server);
+      log('preview server stopped');
+    },
+  };
+  await serverStart();
 
   const { chromium } = await import('playwright-core');
   profileDir = mkdtempSync(join(tmpdir(), 'e2e-'));
@@ -151,7 +165,7 @@ try {
   for (const file of files) {
     const mod = await import(pathToFileURL(join(root, 'tests/e2e', file)).href);
     for (const [name, run] of Object.entries(mod.tests ?? {})) {
-      if (only && !`${file} ${name}`.includes(only)) continue;
+      if (only.length && !only.some((o) => `${file} ${name}`.includes(o))) continue;
       const page = await ctx.newPage();
       await page.addInitScript(() => {
         window.__longTasks = [];
@@ -181,7 +195,7 @@ try {
       const shot = join(resultsDir, `e2e-${slug(file.replace(/\.mjs$/, ''))}-${slug(name)}.png`);
       const started = Date.now();
       try {
-        await withTimeout(run(page, baseUrl, { screenshot: (suffix) => page.screenshot({ path: shot.replace(/\.png$/, `-${suffix}.png`), fullPage: true }), log, fixtures, allowConsoleError: (re) => allowed.push(re) }), TEST_TIMEOUT_MS, name);
+        await withTimeout(run(page, baseUrl, { screenshot: (suffix) => page.screenshot({ path: shot.replace(/\.png$/, `-${suffix}.png`), fullPage: true }), log, fixtures, allowConsoleError: (re) => allowed.push(re), context: ctx, server: serverControl }), mod.timeouts?.[name] ?? TEST_TIMEOUT_MS, name);
         if (problems.length) throw new Error(problems.join('\n  '));
         passed++;
         log(`ok   ${file} › ${name} (${((Date.now() - started) / 1000).toFixed(1)} s)`);
@@ -192,6 +206,9 @@ try {
       }
       await page.screenshot({ path: shot, fullPage: true }).catch(() => {});
       await page.close().catch(() => {});
+      // a test that went offline or stopped the server must not leave it so for the next one
+      await ctx.setOffline(false).catch(() => {});
+      await serverControl.start().catch((e) => log(`preview server could not be restarted: ${e instanceof Error ? e.message : e}`));
     }
   }
 } catch (e) {

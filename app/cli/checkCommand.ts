@@ -1,21 +1,25 @@
 /**
  * `torusgrav check`: a force-accuracy gate. Computes the Ewald reference for the targets, compares the
  * file's accelerations with it, prints a short table, optionally writes a JSON report (schema
- * torusgrav.check/1) and a residuals CSV, and exits 0 when every --require holds, 1 when one fails.
+ * torusgrav.check/1), a residuals CSV and the plots as SVG files, and exits 0 when every --require
+ * holds, 1 when one fails.
  */
 import { createHash } from 'node:crypto';
-import { createReadStream } from 'node:fs';
-import { resolve } from 'node:path';
+import { createReadStream, mkdirSync, statSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import { version } from '../../package.json';
 import { EngineInputError } from '../../engine/ewald/ewald';
-import { type CsvColumn, csvChunks } from '../../engine/formats/csvWrite';
+import { csvChunks } from '../../engine/formats/csvWrite';
+import { residualColumns } from '../../engine/stats/checkSummary';
 import { LOAD_LIMIT_BYTES } from '../../engine/formats/description';
 import { snapshotValidate } from '../../engine/formats/validate';
 import { targetsResolve } from '../../engine/targets';
 import { UNIT_PRESETS, type UnitPreset, unitPresetFind } from '../../engine/units';
 import { type OptionSpec, argsParse } from './argParse';
 import { outputProblem, outputWriteAtomic } from './atomicOutput';
-import { CHECK_SCHEMA, checkFigures, checkTable, jsonNumber, requirementsEvaluate } from './checkReport';
+import { CHECK_SCHEMA, checkFigures, checkReportJson, checkTable, requirementsEvaluate } from './checkReport';
 import { REQUIRE_KEYS, REQUIRE_OPS, requirementParse } from './checkRequire';
+import { checkSvgFiles } from './checkSvg';
 import { CliError, UsageError } from './cliErrors';
 import type { CliIo } from './cliIo';
 import { engineErrorExplain, outsideWarning, targetIds } from './engineErrors';
@@ -45,7 +49,11 @@ export const CHECK_ABOUT = [
   `--json FILE: the report as JSON, schema "${CHECK_SCHEMA}" (fields listed in README.md, "Force-accuracy`,
   'gate for your test suite"); numbers that are infinite or undefined are written as null.',
   '--residuals FILE.csv: id,x,y,z,ax_A,ay_A,az_A,ax_B,ay_B,az_B,rel_error per target (A = the file, B =',
-  'the reference; positions as read), 17 significant digits. No SVG output.',
+  'the reference; positions as read), 17 significant digits.',
+  '--svg DIR: the plots as SVG files in DIR (made if missing; existing files of these names are replaced):',
+  'distribution.svg (histogram and cumulative distribution of the relative error, percentiles and max',
+  'marked), error-vs-acceleration.svg (relative error against |a_ref|) and error-vs-neighbour-distance.svg',
+  '(against the distance to the nearest other particle, periodic); the same plots as the web app.',
   'Input formats and column options are those of torusgrav forces.',
 ];
 
@@ -66,6 +74,7 @@ export const CHECK_OPTIONS: readonly OptionSpec[] = [
   { name: 'seed', metavar: 'S', help: 'integer seed of --sample', defaultText: '1' },
   { name: 'json', metavar: 'FILE.json', help: `write the report as JSON (schema ${CHECK_SCHEMA})` },
   { name: 'residuals', metavar: 'FILE.csv', help: 'write the per-target residuals CSV' },
+  { name: 'svg', metavar: 'DIR', help: 'write the plots as SVG files into DIR (distribution, error against |a_ref| and against neighbour distance)' },
   { name: 'units', metavar: 'PRESET', help: `units of the file, which set G: ${UNIT_PRESETS.map((u) => u.name).join(', ')}`, defaultText: 'G = 1' },
   { name: 'G', metavar: 'g', help: 'gravitational constant, > 0 (instead of --units)', defaultText: '1' },
   { name: 'softening', metavar: 'none|plummer:EPS|spline:H', help: 'softening of the reference, as the code under test uses it', defaultText: 'none' },
@@ -91,6 +100,19 @@ function outputCheck(option: string, path: string | undefined, input: string, ot
   if (others.some((o) => o !== undefined && resolve(o) === resolve(path))) throw new UsageError(`--${option} ${path} is also another output; choose distinct names`, COMMAND);
   const problem = outputProblem(path);
   if (problem) throw new CliError(`--${option} ${path}: ${problem}`);
+}
+
+/** --svg DIR must be a folder or not exist yet (it is made after the computation). */
+function svgDirCheck(dir: string | undefined): void {
+  if (dir === undefined) return;
+  if (dir === '') throw new UsageError('--svg needs a folder name', COMMAND);
+  let st;
+  try {
+    st = statSync(dir);
+  } catch {
+    return;
+  }
+  if (!st.isDirectory()) throw new UsageError(`--svg ${dir} is a file, not a folder; give a folder for the SVG plots`, COMMAND);
 }
 
 /** Runs `torusgrav check`; resolves to the exit code. */
@@ -133,6 +155,8 @@ export async function checkRun(argv: readonly string[], io: CliIo, helpText: () 
   const residualsPath = values.get('residuals');
   outputCheck('json', jsonPath, file, [residualsPath]);
   outputCheck('residuals', residualsPath, file, []);
+  const svgDir = values.get('svg');
+  svgDirCheck(svgDir);
 
   const snapshot = await snapshotFileRead(file, mapping, {
     maxBytes: maxSize === undefined ? LOAD_LIMIT_BYTES : sizeParse(maxSize, 'max-size', COMMAND),
@@ -178,33 +202,35 @@ export async function checkRun(argv: readonly string[], io: CliIo, helpText: () 
   if (residualsPath !== undefined) {
     const pos = new Float64Array(3 * K);
     for (let t = 0; t < K; t++) for (let d = 0; d < 3; d++) pos[3 * t + d] = snapshot.positions[3 * result.targets[t] + d];
-    const xyz = (name: string, v: Float64Array) => [0, 1, 2].map((d) => ({ name: `${'xyz'[d]}${name}`, values: v, stride: 3, offset: d }));
-    const columns: CsvColumn[] = [
-      { name: 'id', values: ids, integer: true },
-      ...[0, 1, 2].map((d) => ({ name: 'xyz'[d], values: pos, stride: 3, offset: d })),
-      ...xyz('', accA).map((c) => ({ ...c, name: `a${c.name}_A` })),
-      ...xyz('', accB).map((c) => ({ ...c, name: `a${c.name}_B` })),
-      { name: 'rel_error', values: f.rel },
-    ];
+    const columns = residualColumns(ids, pos, accA, accB, f.rel);
     await outputWriteAtomic(residualsPath, csvChunks(columns, K));
   }
+  if (svgDir !== undefined) {
+    const files = checkSvgFiles({ rel: f.rel, accA, accB, worst: f.worst, positions: snapshot.positions, box, targets: result.targets });
+    try {
+      mkdirSync(svgDir, { recursive: true });
+    } catch (e) {
+      throw new CliError(`--svg ${svgDir}: cannot make the folder (${e instanceof Error ? e.message : String(e)})`);
+    }
+    for (const sf of files) await outputWriteAtomic(join(svgDir, sf.name), [sf.svg, '\n']);
+  }
   if (jsonPath !== undefined) {
-    const report = {
-      schema: CHECK_SCHEMA,
+    const report = checkReportJson({
       file,
       sha256: await fileSha256(file),
+      sha256Of: 'file',
       n,
-      targets: K,
-      box: { lx: box.lx, ly: box.ly, lz: box.lz },
+      box,
       G: g,
       units: units ? units.name : null,
       reference: { method: 'ewald', tol, softening, alpha, rCut, kCut, predictedRmsError },
-      relativeError: Object.fromEntries(REQUIRE_KEYS.map((k) => [k, jsonNumber(f.relativeError[k])])),
-      rmsErrorOverRmsAcceleration: jsonNumber(f.rmsErrorOverRmsAcceleration),
-      worst: Array.from(f.worst, (k, i) => ({ id: worstIds[i], relErr: jsonNumber(f.rel[k]) })),
-      requirements: results.map((r) => ({ text: r.text, key: r.key, op: r.op, limit: r.limit, value: jsonNumber(r.value), pass: r.pass })),
-      pass,
-    };
+      compared: { method: 'file', accelerations: values.get('accelerations') },
+      figures: f,
+      ids,
+      results,
+      version,
+      created: new Date().toISOString(),
+    });
     await outputWriteAtomic(jsonPath, [`${JSON.stringify(report, null, 2)}\n`]);
   }
   return pass ? 0 : 1;

@@ -1,20 +1,11 @@
 /**
- * The requirements of `torusgrav check` ("p99<=0.01"): parsing (UsageError naming --require and the
- * text) and evaluation against the measured figures.
+ * The requirements of `torusgrav check` ("p99<=0.01"): parsing, with a UsageError naming --require and
+ * the text. Their evaluation is engine/stats/checkSummary.ts (shared with the web app).
  */
+import { REQUIRE_KEYS, REQUIRE_OPS, type RequireKey, type RequireOp, type Requirement } from '../../engine/stats/checkSummary';
 import { UsageError } from './cliErrors';
 
-export const REQUIRE_KEYS = ['p50', 'p90', 'p99', 'p999', 'max', 'rms'] as const;
-export type RequireKey = (typeof REQUIRE_KEYS)[number];
-export const REQUIRE_OPS = ['<=', '<', '>=', '>'] as const;
-export type RequireOp = (typeof REQUIRE_OPS)[number];
-
-export interface Requirement {
-  readonly text: string;
-  readonly key: RequireKey;
-  readonly op: RequireOp;
-  readonly limit: number;
-}
+export { REQUIRE_KEYS, REQUIRE_OPS, type RequireKey, type RequireOp, type Requirement, requirementHolds } from '../../engine/stats/checkSummary';
 
 const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 
@@ -28,19 +19,4 @@ export function requirementParse(text: string, command: string): Requirement {
   const limit = DECIMAL.test(m[3]) ? Number(m[3]) : NaN;
   if (!Number.isFinite(limit)) throw new UsageError(`--require ${JSON.stringify(text)}: the limit ${JSON.stringify(m[3])} is not a finite number`, command);
   return { text: text.trim(), key: key as RequireKey, op: m[2] as RequireOp, limit };
-}
-
-/** Whether `value` satisfies the requirement; a NaN value never does (Infinity compares as usual). */
-export function requirementHolds(r: Requirement, value: number): boolean {
-  if (Number.isNaN(value)) return false;
-  switch (r.op) {
-    case '<=':
-      return value <= r.limit;
-    case '<':
-      return value < r.limit;
-    case '>=':
-      return value >= r.limit;
-    case '>':
-      return value > r.limit;
-  }
 }

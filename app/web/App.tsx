@@ -7,6 +7,8 @@ import { RunPanel } from './components/RunPanel';
 import { SnapshotPanel } from './components/SnapshotPanel';
 import { StatsTable } from './components/StatsTable';
 import { View3DPanel } from './components/View3DPanel';
+import { MappingDialog } from './components/mapping/MappingDialog';
+import { PageDrop } from './components/mapping/PageDrop';
 
 export function App() {
   return (
@@ -35,6 +37,8 @@ export function App() {
           <PlotsPanel />
         </div>
       </main>
+      <MappingDialog />
+      <PageDrop />
       <footer className="footer">Everything runs in your browser; no data leaves this page. The coarse mesh is our own deliberately approximate solver, a stand-in for your code.</footer>
     </div>
   );

@@ -11,7 +11,11 @@ import { computeClientSet, computeStart, convergenceStart } from './state/pipeli
 import { DEFAULT_DRAFT, draftFromQuery, draftToQuery, fileFromQuery } from './state/settings';
 import { appReset, appStore } from './state/store';
 import { computeClientCreate } from './worker/client';
-import { workerSpawn } from './worker/spawn';
+import { planClientSet } from './state/planOffThread';
+import { computeSpawnFor, testHooksWanted } from './testHooks';
+import { planClientCreate } from './worker/planClient';
+import { planSpawn } from './worker/planSpawn';
+import { serviceWorkerRegister } from './offline/swRegister';
 import './styles.css';
 
 /** Follow-up convergence measurement on the first comparison when it is cheap (small snapshots). */
@@ -22,12 +26,15 @@ async function start(): Promise<void> {
   const query = new URLSearchParams(window.location.search);
   const fresh = query.has('fresh');
   query.delete('fresh');
+  query.delete('testhooks');
   if (fresh) await sessionForget();
   const stored = fresh ? null : draftLoad();
   const shared = query.toString() ? `?${query}` : '';
   const draft = shared ? draftFromQuery(shared, stored ?? DEFAULT_DRAFT) : (stored ?? DEFAULT_DRAFT);
   appReset(draft);
-  computeClientSet(computeClientCreate(workerSpawn));
+  computeClientSet(computeClientCreate(computeSpawnFor(testHooksWanted(window.location.search))));
+  planClientSet(planClientCreate(planSpawn));
+  serviceWorkerRegister();
   createRoot(document.getElementById('root')!).render(
     <StrictMode>
       <App />

@@ -6,7 +6,7 @@
  * Whether percentileLinear itself follows its published definition is tested with engine/stats.
  */
 import { createHash } from 'node:crypto';
-import { existsSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoSnapshot } from '../../engine/demo/demoSnapshot';
@@ -15,7 +15,8 @@ import { errorSummary, percentileLinear, relativeErrors, sortedFinite } from '..
 import { randomSeeded } from '../../engine/util/random';
 import { targetsResolve } from '../../engine/targets';
 import { maxVectorRelativeError, pickRows } from '../helpers/tolerance';
-import { cli, cliEnsureBuilt, csvParseSimple, tempDir, tempDirsRemove } from './cliHarness';
+import { shortNumber } from '../../app/web/plots/svg';
+import { ROOT, cli, cliEnsureBuilt, csvParseSimple, tempDir, tempDirsRemove } from './cliHarness';
 
 const N = 200;
 let dir: string;
@@ -61,6 +62,10 @@ describe('torusgrav check', () => {
     expect(report.G).toBe(1);
     expect(report.reference.method).toBe('ewald');
     expect(report.pass).toBe(true);
+    expect(report.sha256Of).toBe('file');
+    expect(report.compared).toEqual({ method: 'file', accelerations: 'gx,gy,gz' });
+    expect(report.version).toBe(JSON.parse(readFileSync(join(ROOT, 'package.json'), 'utf8')).version);
+    expect(report.undefinedTargets).toEqual({ zeroReference: 0, nonFinite: 0 });
 
     // The residuals hold A (the file) and B (the reference) to 17 digits; B is the engine's Ewald result.
     const { header, rows } = csvParseSimple(readFileSync(residuals, 'utf8'));
@@ -86,6 +91,8 @@ describe('torusgrav check', () => {
     expect(report.rmsErrorOverRmsAcceleration).toBe(s.rmsRatio);
     expect(report.worst.map((w: { id: number }) => w.id)).toEqual(Array.from(s.worst));
     expect(report.worst[0].relErr).toBe(e.max);
+    expect(report.rmsError).toBe(s.rmsError);
+    expect(report.rmsReference).toBe(s.rmsReference);
     // Noise uniform in ±0.3% per component: relative errors below 0.3%·√3 and far above the reference error.
     expect(e.max).toBeLessThan(0.003 * Math.sqrt(3));
     expect(e.p50).toBeGreaterThan(1e-4);
@@ -130,9 +137,54 @@ describe('torusgrav check', () => {
   it('help lists every option and the exit codes', () => {
     const r = cli(['check', '--help']);
     expect(r.code).toBe(0);
-    for (const o of ['--box', '--accelerations', '--reference', '--tol', '--sample', '--seed', '--require', '--json', '--residuals']) expect(r.stdout).toMatch(new RegExp(`^\\s+${o}\\b`, 'm'));
+    for (const o of ['--box', '--accelerations', '--reference', '--tol', '--sample', '--seed', '--require', '--json', '--residuals', '--svg']) expect(r.stdout).toMatch(new RegExp(`^\\s+${o}\\b`, 'm'));
     expect(r.stdout).toContain('torusgrav.check/1');
     expect(r.stdout).toContain('1 a requirement fails');
+  });
+
+  it('--svg DIR writes the distribution and the error-against-|a_ref| and -neighbour-distance plots as SVG, with the report\'s numbers', () => {
+    const json = join(dir, 'svg.json');
+    const out = join(dir, 'plots', 'nested');
+    const r = cli(base(json, '--require', 'p99<=0.01', '--svg', out));
+    expect(r.code, r.stderr).toBe(0);
+    expect(readdirSync(out).sort()).toEqual(['distribution.svg', 'error-vs-acceleration.svg', 'error-vs-neighbour-distance.svg']);
+    const report = JSON.parse(readFileSync(json, 'utf8'));
+    for (const name of readdirSync(out)) {
+      const svg = readFileSync(join(out, name), 'utf8');
+      // one svg root in the SVG namespace, with its size, and balanced elements (well-formed)
+      expect(svg).toMatch(/^<svg xmlns="http:\/\/www\.w3\.org\/2000\/svg" width="560" height="340" viewBox="0 0 560 340"/);
+      expect(svg.trimEnd().endsWith('</svg>')).toBe(true);
+      const stack: string[] = [];
+      for (const m of svg.matchAll(/<(\/?)([a-zA-Z][\w-]*)[^>]*?(\/?)>/g)) {
+        if (m[1]) expect(stack.pop(), `${name}: </${m[2]}>`).toBe(m[2]);
+        else if (!m[3]) stack.push(m[2]);
+      }
+      expect(stack, name).toEqual([]);
+      expect(svg).not.toMatch(/NaN|undefined|Infinity/);
+    }
+    // the distribution marks the percentiles and the max of the JSON report
+    const dist = readFileSync(join(out, 'distribution.svg'), 'utf8');
+    const e = report.relativeError;
+    for (const [label, v] of [['50 %', e.p50], ['90 %', e.p90], ['99 %', e.p99], ['99.9 %', e.p999], ['max', e.max]] as const) expect(dist).toContain(`>${label} ${shortNumber(v)}</text>`);
+    expect(dist).toContain('|a_file − a_ref|');
+    // the scatter plots draw one dot per target (N = 200 is below the binning threshold)
+    for (const name of ['error-vs-acceleration.svg', 'error-vs-neighbour-distance.svg']) {
+      const svg = readFileSync(join(out, name), 'utf8');
+      const points = /<g data-part="points" data-count="(\d+)"><path d="([^"]*)"/.exec(svg);
+      expect(points, name).not.toBeNull();
+      expect(Number(points![1])).toBe(N);
+      expect(points![2].match(/M/g)!.length).toBe(N);
+    }
+  });
+
+  it('--svg naming an existing file is bad input (exit 2, nothing written)', () => {
+    const json = join(dir, 'svg-bad.json');
+    const file = join(dir, 'a-file.txt');
+    writeFileSync(file, 'x');
+    const r = cli(base(json, '--require', 'p99<=0.01', '--svg', file));
+    expect(r.code, r.stderr).toBe(2);
+    expect(r.stderr).toContain('--svg');
+    expect(existsSync(json)).toBe(false);
   });
 
   const BAD: readonly { what: string; args: (json: string) => string[]; says: string[] }[] = [

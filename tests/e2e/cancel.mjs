@@ -35,9 +35,17 @@ export const tests = {
     await page.click('[data-testid=compute]');
     await waitStatus(page, 'computing', 5_000);
     await page.waitForTimeout(400);
+    // each compute worker holds a Web Lock named for it while it lives (worker/liveness.ts)
+    const computeLocks = () => page.evaluate(async () => (await navigator.locks.query()).held.map((l) => l.name).filter((n) => n.startsWith('torusgrav-compute-')));
+    const first = await computeLocks();
+    check(first.length === 1, `expected one live compute worker, found ${JSON.stringify(first)}`);
     await page.fill('input[name=targets]', '512');
     await page.click('[data-testid=compute]');
     await waitStatus(page, 'done', 20_000);
     check(Number((await stat(page, 'stats', 'targets')).value) === 512, 'the short computation did not use 512 targets');
+    // the first run's worker was terminated (its lock released), not left computing beside the second
+    await page.waitForFunction(async (name) => !(await navigator.locks.query()).held.some((l) => l.name === name), first[0], { timeout: 10_000, polling: 200 });
+    const after = await computeLocks();
+    check(after.length === 1 && after[0] !== first[0], `the first run's worker still lives: ${JSON.stringify(after)}`);
   },
 };

@@ -65,18 +65,3 @@ export const tests = {
     check(requests.length > 2, 'no requests seen at all');
   },
 };
-
-tests['"Export report" downloads one HTML file with the numbers, the plots and the 3D view'] = async (page, baseUrl) => {
-  await openFresh(page, baseUrl);
-  await waitStatus(page, 'done', 30_000);
-  await waitViewComparison(page);
-  const [download] = await Promise.all([page.waitForEvent('download', { timeout: 20_000 }), page.click('[data-testid=export-report]')]);
-  check(/^torusgrav-report-.*\.html$/.test(download.suggestedFilename()), `file name ${download.suggestedFilename()}`);
-  const { readFileSync } = await import('node:fs');
-  const html = readFileSync(await download.path(), 'utf8');
-  check(html.includes('torusgrav — force comparison'), 'report title missing');
-  check(html.includes('mesh 32³') && html.includes('Ewald tol 1e-6'), 'methods missing from the report');
-  check((html.match(/<svg/g) ?? []).length >= 3, 'plots missing from the report');
-  check(/src="data:image\/png;base64,[A-Za-z0-9+/]{1000,}/.test(html), '3D view image missing or empty');
-  checkNoBadNumbers(html.replace(/<svg[\s\S]*?<\/svg>/g, ''), 'report');
-};

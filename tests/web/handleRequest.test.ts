@@ -6,7 +6,7 @@ import { meshForces } from '../../engine/codeUnderTest/meshForces';
 import { errorReport } from '../../engine/stats/errorReport';
 import { neighboursFind } from '../../engine/stats/neighbours';
 import { handleRequest, progressThrottle } from '../../app/web/worker/handleRequest';
-import type { ComparePayload, DemoPayload, ForcesPayload, NeighboursPayload, ReadPayload, ResultReply, SweepPayload, WorkerReply, WorkerRequest } from '../../app/web/worker/protocol';
+import type { ComparePayload, DemoPayload, DescribePayload, ForcesPayload, LoadPayload, NeighboursPayload, ResultReply, SweepPayload, WorkerReply, WorkerRequest } from '../../app/web/worker/protocol';
 
 async function collect(request: WorkerRequest) {
   const posts: { reply: WorkerReply; transfer: Transferable[] }[] = [];
@@ -84,7 +84,7 @@ describe('handleRequest(ewald)', () => {
   });
 });
 
-describe('handleRequest(mesh, sweep, neighbours, compare, read)', () => {
+describe('handleRequest(mesh, sweep, neighbours, compare, describe, load)', () => {
   const d = demoSnapshot(500, 2);
   const box = boxMake(1);
 
@@ -133,9 +133,13 @@ describe('handleRequest(mesh, sweep, neighbours, compare, read)', () => {
     expect(cmp.transfer).toContain(cmp.payload.summary.worst.buffer);
   });
 
-  test('read parses a CSV, taking ax, ay, az and id columns when the header names them', async () => {
+  test('describe proposes ax, ay, az and id from the header; load reads them with that mapping', async () => {
     const text = 'id,x,y,z,m,ax,ay,az\n7,0.1,0.2,0.3,2,1,2,3\n9,0.4,0.5,0.6,1,-1,-2,-3\n';
-    const { payload } = await result<ReadPayload>({ type: 'read', id: 5, bytes: new TextEncoder().encode(text), fileName: 'two.csv' });
+    const file = new Blob([text]);
+    const { payload: described } = await result<DescribePayload>({ type: 'describe', id: 4, file, fileName: 'two.csv' });
+    const mapping = described.description.proposal.mapping;
+    expect(mapping).toEqual({ positions: ['x', 'y', 'z'], mass: 'm', accelerations: ['ax', 'ay', 'az'], ids: 'id' });
+    const { payload } = await result<LoadPayload>({ type: 'load', id: 5, file, fileName: 'two.csv', mapping, box: null });
     expect(payload.count).toBe(2);
     expect(Array.from(payload.positions)).toEqual([0.1, 0.2, 0.3, 0.4, 0.5, 0.6]);
     expect(Array.from(payload.masses)).toEqual([2, 1]);
@@ -144,8 +148,8 @@ describe('handleRequest(mesh, sweep, neighbours, compare, read)', () => {
     expect(Array.from(payload.ids!)).toEqual([7, 9]);
   });
 
-  test('read turns a bad cell into one error reply naming file, line and column', async () => {
-    const posts = await collect({ type: 'read', id: 6, bytes: new TextEncoder().encode('x,y,z\n0.1,0.2,oops\n'), fileName: 'bad.csv' });
+  test('load turns a bad cell into one error reply naming file, line and column', async () => {
+    const posts = (await collect({ type: 'load', id: 6, file: new TextEncoder().encode('x,y,z\n0.1,0.2,oops\n'), fileName: 'bad.csv', mapping: {}, box: null })).filter((p) => p.reply.type !== 'progress');
     expect(posts).toHaveLength(1);
     const r = posts[0].reply;
     expect(r.type).toBe('error');

@@ -5,20 +5,19 @@ import { ewaldParamsChoose } from '../../engine/ewald/params';
 import { methodOptionsKey, methodOptionsParse } from '../../app/web/methods/methodOptions';
 import { methodPlan } from '../../app/web/methods/methodPlan';
 import { METHODS, isMethodId, paramDefaults, paramsVisible } from '../../app/web/methods/registry';
-import { columnsGuess, csvHeaderPeek } from '../../app/web/io/columnGuess';
 
 describe('the method registry', () => {
-  test('lists the reference, file and code-under-test methods as ready, and the coming ones as not', () => {
-    expect(METHODS.filter((m) => m.ready).map((m) => m.id)).toEqual(['ewald', 'file', 'mesh']);
-    expect(METHODS.filter((m) => !m.ready).map((m) => m.kind)).toEqual(['order', 'order', 'order', 'order', 'order', 'fast']);
+  test('lists the reference, file, code-under-test, image-sum orders and PME, all ready', () => {
+    expect(METHODS.filter((m) => m.ready).map((m) => m.id)).toEqual(['ewald', 'file', 'mesh', 'sphere', 'cube', 'slab', 'screened', 'nearest', 'pme']);
+    expect(METHODS.filter((m) => m.kind === 'order').map((m) => m.id)).toEqual(['sphere', 'cube', 'slab', 'screened', 'nearest']);
     expect(isMethodId('sphere')).toBe(true);
     expect(isMethodId('warp')).toBe(false);
   });
 
   test('shows the softening length only when a softening kernel is chosen', () => {
     const p = paramDefaults();
-    expect(paramsVisible('ewald', p).map((s) => s.key)).toEqual(['ewald.tol', 'ewald.softening']);
-    expect(paramsVisible('ewald', { ...p, 'ewald.softening': 'spline' }).map((s) => s.key)).toEqual(['ewald.tol', 'ewald.softening', 'ewald.eps']);
+    expect(paramsVisible('ewald', p).map((s) => s.key)).toEqual(['ewald.tol', 'ewald.softening', 'ewald.all']);
+    expect(paramsVisible('ewald', { ...p, 'ewald.softening': 'spline' }).map((s) => s.key)).toEqual(['ewald.tol', 'ewald.softening', 'ewald.eps', 'ewald.all']);
   });
 });
 
@@ -37,7 +36,7 @@ describe('methodOptionsParse(method, params, G)', () => {
     ['ewald', { 'ewald.tol': '2' }, 'Ewald tolerance: expected a number between 0 and 1 (exclusive), such as 1e-6, got "2"'],
     ['ewald', { 'ewald.softening': 'spline', 'ewald.eps': '-1' }, 'spline h: expected a positive length, got "-1"'],
     ['mesh', { 'mesh.n': '48' }, 'mesh points per side: expected one of 8, 16, 32, 64, 128, got "48"'],
-    ['sphere', {}, 'image sum, spherical shells: not available in this build yet'],
+    ['sphere', { 'sphere.shells': 'many' }, 'shells R: expected a whole number from 1 to 4096, got "many"'],
   ] as const)('rejects %s %o with a message naming the parameter', (method, patch, message) => {
     expect(() => methodOptionsParse(method, { ...p, ...patch }, 1)).toThrow(message);
   });
@@ -63,21 +62,5 @@ describe('methodPlan(options, …)', () => {
     const m32 = methodOptionsParse('mesh', paramDefaults(), 1), m64 = methodOptionsParse('mesh', { 'mesh.n': '64' }, 1);
     expect(methodPlan(m64, d.positions, d.masses, box, 2000).costNs).toBeGreaterThan(methodPlan(m32, d.positions, d.masses, box, 2000).costNs);
     expect(methodPlan(methodOptionsParse('file', {}, 1), d.positions, d.masses, box, 2000).costNs).toBe(0);
-  });
-});
-
-describe('csvHeaderPeek(bytes) and columnsGuess(columns)', () => {
-  const enc = (s: string) => new TextEncoder().encode(s);
-  test('reads the header after a byte-order mark, comments and blank lines', () => {
-    expect(csvHeaderPeek(enc('\uFEFF# made by my code\n\n"x", y ,z,ax,ay,az\r\n1,2,3,4,5,6\n'))).toEqual(['x', 'y', 'z', 'ax', 'ay', 'az']);
-    expect(csvHeaderPeek(enc('1,2,3\n'))).toBeNull();
-  });
-
-  test('finds acceleration triples and an id column case-insensitively, keeping the header’s spelling', () => {
-    expect(columnsGuess(['X', 'Y', 'Z', 'AX', 'AY', 'AZ', 'ID'])).toEqual({ accelerations: ['AX', 'AY', 'AZ'], id: 'ID' });
-    expect(columnsGuess(['x', 'y', 'z', 'acc_x', 'acc_y', 'acc_z'])).toEqual({ accelerations: ['acc_x', 'acc_y', 'acc_z'], id: null });
-    expect(columnsGuess(['x', 'y', 'z', 'ax', 'ay'])).toEqual({ accelerations: null, id: null });
-    // a doubled name is ambiguous: not guessed
-    expect(columnsGuess(['x', 'y', 'z', 'ax', 'ay', 'az', 'ax']).accelerations).toBeNull();
   });
 });

@@ -10,7 +10,8 @@ import { requestRun } from '../../app/web/worker/handleRequest';
 import type { RequestBody } from '../../app/web/worker/protocol';
 import { DEFAULT_DRAFT } from '../../app/web/state/settings';
 import { appReset, appStore, draftSet, slotMethodSet, slotParamSet } from '../../app/web/state/store';
-import { computeCancel, computeClientSet, computeStart, convergenceStart, fileLoad, SWEEP_MESHES, SWEEP_TOLERANCES } from '../../app/web/state/pipeline';
+import { computeCancel, computeClientSet, computeStart, convergenceStart, SWEEP_MESHES, SWEEP_TOLERANCES } from '../../app/web/state/pipeline';
+import { fileLoad } from '../../app/web/state/loadActions';
 import { runPlanMake } from '../../app/web/state/runPlan';
 
 /**
@@ -183,7 +184,7 @@ describe('cancelling, crashes and a second computation', () => {
     await computeStart();
     const s = appStore.getState();
     expect(s.status).toBe('error');
-    expect(s.message).toBe('compute worker failed: out of memory (a fresh worker has been started; your data are kept)');
+    expect(s.message).toBe('the computing worker stopped: compute worker failed: out of memory; restarted — the snapshot and finished results are kept');
     expect(s.comparison).toBe(earlier);
   });
 
@@ -224,7 +225,7 @@ describe('fileLoad(name, bytes)', () => {
     expect(s.draft.box).toBe('1');
     expect(s.draft.a.method).toBe('file');
     expect(s.draft.b.method).toBe('ewald');
-    expect(c.types()).toEqual(['read', 'ewald', 'neighbours', 'compare']);
+    expect(c.types()).toEqual(['describe', 'load', 'ewald', 'neighbours', 'compare']);
     const cmp = s.comparison!;
     expect(cmp.runA.label).toBe('file (ax, ay, az)');
     // the file holds Ewald at tolerance 1e-3 (written with full digits): errors are small but not zero

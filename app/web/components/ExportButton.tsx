@@ -1,36 +1,64 @@
-/** "Export report": one self-contained HTML file with the settings, the numbers, the plots and the 3D view. */
-import { exportReportHtml } from '../report/reportHtml';
+/**
+ * "Export report": a verdict figure and limit, and the button that downloads the report PNG with the
+ * residuals CSV and the JSON summary beside it (app/web/report/).
+ */
+import { useEffect, useState } from 'react';
+import { REQUIRE_KEY_WORDS, REQUIRE_KEYS, type RequireKey } from '../../../engine/stats/checkSummary';
+import { fileWatch } from '../report/fileDigest';
+import { download, reportFiles } from '../report/reportExport';
+import { DEFAULT_VERDICT, verdictLimitParse } from '../report/reportVerdict';
 import { appStore } from '../state/store';
 import { useApp } from '../state/useApp';
 
-function download(name: string, text: string): void {
-  const url = URL.createObjectURL(new Blob([text], { type: 'text/html' }));
-  const a = document.createElement('a');
-  a.href = url;
-  a.download = name;
-  document.body.appendChild(a);
-  a.click();
-  a.remove();
-  setTimeout(() => URL.revokeObjectURL(url), 10_000);
-}
-
 export function ExportButton() {
-  const ready = useApp((s) => s.comparison !== null);
-  const onClick = () => {
-    const canvas = document.querySelector<HTMLCanvasElement>('[data-testid=viewport-3d] canvas');
-    let image: string | null = null;
+  const ready = useApp((s) => s.comparison !== null && s.snapshot !== null && s.comparison.snapshotId === s.snapshot.id);
+  const [key, setKey] = useState<RequireKey>(DEFAULT_VERDICT.key);
+  const [limit, setLimit] = useState(DEFAULT_VERDICT.limit);
+  const [busy, setBusy] = useState(false);
+  const [message, setMessage] = useState('');
+  useEffect(() => fileWatch(), []);
+  let limitError = '';
+  try {
+    verdictLimitParse(limit);
+  } catch (e) {
+    limitError = e instanceof Error ? e.message : String(e);
+  }
+  const onClick = async () => {
+    setBusy(true);
+    setMessage('');
     try {
-      image = canvas ? canvas.toDataURL('image/png') : null;
-    } catch {
-      image = null;
+      const canvas = document.querySelector<HTMLCanvasElement>('[data-testid=viewport-3d] canvas');
+      const files = await reportFiles(appStore.getState(), canvas, { key, limit }, new Date(), window.location.href);
+      for (const f of files) download(f);
+      setMessage("saved: report PNG, residuals CSV, JSON summary");
+    } catch (e) {
+      setMessage(`export failed: ${e instanceof Error ? e.message : String(e)}`);
+    } finally {
+      setBusy(false);
     }
-    const s = appStore.getState();
-    const { name, html } = exportReportHtml(s, image, new Date(), window.location.href);
-    download(name, html);
   };
   return (
-    <button type="button" className="secondary-calm" data-testid="export-report" disabled={!ready} onClick={onClick}>
-      Export report
-    </button>
+    <div className="export-tools" data-testid="export-panel" style={{ display: 'flex', alignItems: 'center', gap: 6, flexWrap: 'wrap', justifyContent: 'flex-end' }}>
+      <label style={{ display: 'flex', alignItems: 'center', gap: 4 }} title="the verdict printed on the report: this figure of the relative error must not exceed the limit">
+        <span>verdict</span>
+        <select value={key} onChange={(e) => setKey(e.target.value as RequireKey)} data-testid="verdict-key">
+          {REQUIRE_KEYS.map((k) => (
+            <option key={k} value={k}>
+              {REQUIRE_KEY_WORDS[k]}
+            </option>
+          ))}
+        </select>
+        <span>≤</span>
+        <input value={limit} onChange={(e) => setLimit(e.target.value)} data-testid="verdict-limit" size={6} aria-invalid={limitError !== ''} title={limitError || 'a fraction (0.01) or a percentage (1 %)'} />
+      </label>
+      <button type="button" className="secondary-calm" data-testid="export-report" disabled={!ready || busy || limitError !== ''} onClick={() => void onClick()}>
+        {busy ? 'Exporting…' : 'Export report'}
+      </button>
+      {limitError || message ? (
+        <span className="card-hint" data-testid="export-message" role="status">
+          {limitError || message}
+        </span>
+      ) : null}
+    </div>
   );
 }

@@ -1,8 +1,10 @@
 /** The plots: error distribution, error against |a_B| and against neighbours, and convergence. */
-import { useDeferredValue, useMemo } from 'react';
+import { useDeferredValue, useMemo, useState } from 'react';
 import { convergencePlot } from '../plots/convergencePlot';
 import { distributionPlot } from '../plots/distributionPlot';
-import { convergenceData, distributionData, scatterByAcceleration, scatterByNeighbours } from '../plots/plotData';
+import { orderConvergencePlot } from '../plots/orderConvergencePlot';
+import { convergenceData, distributionData, orderConvergenceData, orderDefaultComponent, orderDeviationData, scatterByAcceleration, scatterByNeighbours } from '../plots/plotData';
+import { type OrderTrace, runHasTrace } from '../state/orderRuns';
 import { scatterPlot } from '../plots/scatterPlot';
 import { convergenceStart } from '../state/pipeline';
 import type { ScatterAxis } from '../state/settings';
@@ -55,6 +57,54 @@ function ConvergenceFigures({ conv, cmp }: { conv: ConvergenceRun | null; cmp: C
   );
 }
 
+function OrderDeviationFigure({ trace, floor }: { trace: OrderTrace; floor: number }) {
+  const svg = useMemo(() => {
+    const d = orderDeviationData(trace, floor);
+    return d ? convergencePlot(d, 560, 300) : '';
+  }, [trace, floor]);
+  return svg ? (
+    <figure className="plot">
+      <SvgPlot svg={svg} testId={`plot-deviation-${trace.method}`} />
+    </figure>
+  ) : null;
+}
+
+function OrderFigure({ trace, ids }: { trace: OrderTrace; ids: Float64Array | null }) {
+  const [chosen, setChosen] = useState<'auto' | '0' | '1' | '2'>('auto');
+  const component = chosen === 'auto' ? orderDefaultComponent(trace) : (Number(chosen) as 0 | 1 | 2);
+  const svg = useMemo(() => orderConvergencePlot(orderConvergenceData(trace, component, ids), 560), [trace, component, ids]);
+  return (
+    <figure className="plot">
+      <label className="inline-choice">
+        <span>component</span>
+        <select value={chosen} onChange={(e) => setChosen(e.target.value as typeof chosen)} data-testid={`order-component-${trace.method}`}>
+          <option value="auto">auto ({'xyz'[orderDefaultComponent(trace)]}: {trace.limit && trace.order !== 'screened' ? 'where the limit departs from Ewald' : 'largest'})</option>
+          <option value="0">x</option>
+          <option value="1">y</option>
+          <option value="2">z</option>
+        </select>
+      </label>
+      <SvgPlot svg={svg} testId={`plot-convergence-${trace.method}`} />
+    </figure>
+  );
+}
+
+function OrderFigures({ conv, cmp }: { conv: ConvergenceRun | null; cmp: Comparison }) {
+  const ids = useApp((s) => s.snapshot?.ids ?? null);
+  const shown = conv && conv.snapshotId === cmp.snapshotId ? (conv.orders ?? []).filter((t) => t.runKey === cmp.runA.key || t.runKey === cmp.runB.key) : [];
+  if (!shown.length) return null;
+  return (
+    <div className="plot-grid">
+      {shown.map((t) => (
+        <OrderFigure key={t.runKey} trace={t} ids={ids} />
+      ))}
+      {shown.map((t) => (
+        <OrderDeviationFigure key={`${t.runKey}-dev`} trace={t} floor={conv!.referenceTol} />
+      ))}
+    </div>
+  );
+}
+
 export function PlotsPanel() {
   // plots follow the comparison in a deferred (interruptible) render, after the rest of the page
   const cmp = useDeferredValue(useApp((s) => s.comparison));
@@ -64,7 +114,7 @@ export function PlotsPanel() {
   const convStatus = useApp((s) => s.convergenceStatus);
   const convMessage = useApp((s) => s.convergenceMessage);
   const busy = useApp((s) => s.status === 'computing' || s.status === 'loading');
-  const sweepable = cmp && [cmp.runA.method, cmp.runB.method].some((m) => m === 'ewald' || m === 'mesh');
+  const sweepable = cmp && ([cmp.runA.method, cmp.runB.method].some((m) => m === 'ewald' || m === 'mesh') || runHasTrace(cmp.runA) || runHasTrace(cmp.runB));
   const measured = !!conv && !!cmp && conv.snapshotId === cmp.snapshotId;
   return (
     <section className="card plots" aria-labelledby="plots-title" data-testid="plots">
@@ -92,12 +142,13 @@ export function PlotsPanel() {
             </button>
             <span className="plot-tools-note">
               {sweepable
-                ? 'each computed method at several settings, on 16 targets (the 4 worst and 12 drawn at random), against Ewald at tolerance 10⁻¹¹'
-                : 'no computed method to refine here (the image-sum orders are not in this build yet)'}
+                ? 'each computed method at several settings (image-sum orders: shell by shell), on 16 targets (the 4 worst and 12 drawn at random), against Ewald at tolerance 10⁻¹¹'
+                : 'no method here with settings to refine (the file’s accelerations, PME and the nearest image have none)'}
             </span>
           </div>
           {convStatus === 'error' ? <p className="plan-error">{convMessage}</p> : null}
           <ConvergenceFigures conv={conv} cmp={cmp} />
+          <OrderFigures conv={conv} cmp={cmp} />
         </>
       ) : (
         <p className="card-note">The plots appear when the first comparison is done.</p>

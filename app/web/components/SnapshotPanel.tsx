@@ -1,16 +1,20 @@
 /** What is being compared: the snapshot (demo or a dropped file), its box, masses and stored accelerations. */
 import { type DragEvent, useRef, useState } from 'react';
 import { formatBox, formatCount, formatNumber } from '../format';
-import { demoReturn, fileLoad } from '../state/pipeline';
+import { demoReturn } from '../state/pipeline';
+import { fileOpen } from '../state/loadActions';
+import { LoadSummary } from './mapping/LoadSummary';
 import { draftSet } from '../state/store';
 import { useApp } from '../state/useApp';
 import { Stat } from './Stat';
 
-/** Reads a dropped or chosen file and hands it to the store (parsing happens in the worker). */
+/** Hands a dropped or chosen file to the loader (the worker reads it in slices). */
 async function fileTake(file: File): Promise<void> {
-  const bytes = new Uint8Array(await file.arrayBuffer());
-  await fileLoad(file.name, bytes);
+  await fileOpen(file, file.name);
 }
+
+/** File endings the picker offers (any file can still be dropped; the format is read from its content). */
+const SNAPSHOT_ACCEPT = '.csv,.tsv,.txt,.dat,.asc,.gz,.npy,.npz,.h5,.hdf5,.hdf,.he5,text/csv,text/plain';
 
 export function SnapshotPanel() {
   const snapshot = useApp((s) => s.snapshot);
@@ -41,7 +45,7 @@ export function SnapshotPanel() {
         <input
           ref={input}
           type="file"
-          accept=".csv,.txt,text/csv"
+          accept={SNAPSHOT_ACCEPT}
           data-testid="file-input"
           className="visually-hidden"
           id="file-input"
@@ -53,7 +57,7 @@ export function SnapshotPanel() {
         />
         <label htmlFor="file-input" className="drop-label">
           <strong>{busy ? 'reading…' : 'Drop a snapshot here'}</strong> or <span className="link-like">choose a file</span>
-          <span className="drop-hint">CSV with a header: x, y, z, optional m or mass, and your accelerations as ax, ay, az</span>
+          <span className="drop-hint">anywhere on the page · text (.csv .tsv .txt .dat, also .gz), NumPy .npy/.npz, HDF5 · a header x, y, z (m, ax, ay, az) loads at once; otherwise you choose the arrays</span>
         </label>
       </div>
       {wanted ? (
@@ -62,6 +66,7 @@ export function SnapshotPanel() {
           {wanted.n ? ` (${formatCount(wanted.n)} particles)` : ''}: drop that file to see the same view. The demo is shown meanwhile.
         </p>
       ) : null}
+      <LoadSummary />
       <p className="card-note" data-testid="snapshot-source">
         {snapshot ? (snapshot.kind === 'demo' ? `${snapshot.source}, seed ${snapshot.seed}` : snapshot.source) : 'no snapshot loaded'}
       </p>

@@ -6,12 +6,15 @@
 import type { EwaldOptions } from '../../../engine/ewald/params';
 import type { MeshOptions } from '../../../engine/codeUnderTest/meshForces';
 import type { Softening } from '../../../engine/softening';
+import { type OrderMethodOptions, type PmeMethodOptions, isOrderMethod, moreOptionsKey, orderOptionsParse, pmeOptionsParse } from './moreOptions';
 import { type MethodId, methodSpec } from './registry';
 
 export type MethodOptions =
   | { readonly method: 'ewald'; readonly options: EwaldOptions }
   | { readonly method: 'mesh'; readonly options: MeshOptions }
-  | { readonly method: 'file' };
+  | { readonly method: 'file' }
+  | OrderMethodOptions
+  | PmeMethodOptions;
 
 function numberField(text: string | undefined, label: string, check: (v: number) => boolean, expected: string): number {
   const t = (text ?? '').trim();
@@ -41,7 +44,10 @@ export function methodOptionsParse(method: MethodId, params: Readonly<Record<str
     }
     case 'file':
       return { method };
+    case 'pme':
+      return pmeOptionsParse(params, G);
     default:
+      if (isOrderMethod(method)) return orderOptionsParse(method, params, G);
       throw new RangeError(`${spec.label}: not available in this build yet`);
   }
 }
@@ -58,5 +64,7 @@ export function methodOptionsKey(m: MethodOptions): string {
       return `mesh(n=${m.options.mesh},G=${m.options.G})`;
     case 'file':
       return 'file';
+    default:
+      return moreOptionsKey(m);
   }
 }

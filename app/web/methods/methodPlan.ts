@@ -7,6 +7,8 @@ import type { Box } from '../../../engine/box';
 import { boxVolume } from '../../../engine/box';
 import { ewaldParamsChoose, type EwaldParams } from '../../../engine/ewald/params';
 import type { MethodOptions } from './methodOptions';
+import { orderPlan } from './orderPlan';
+import { pmePlan } from './pmePlan';
 
 /** One shown line: a label and its value (already formatted by the caller, or a number). */
 export interface PlanLine {
@@ -96,5 +98,9 @@ export function methodPlan(m: MethodOptions, positions: Float64Array, masses: Fl
     }
     case 'file':
       return { lines: [], predictedRelative: null, predictedRms: null, costNs: 0, note: 'read from the snapshot; nothing to compute' };
+    case 'pme':
+      return pmePlan(m, positions, masses, box);
+    default:
+      return orderPlan(m, positions, masses, box, targets);
   }
 }

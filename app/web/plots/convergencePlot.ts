@@ -1,6 +1,6 @@
 /**
- * How one method's error falls as its parameter is refined (tolerance, mesh size; later shell radius or
- * λ for the image-sum orders): one faint line per followed target, their median in bold, and the
+ * How one method's error falls as its parameter is refined (tolerance, mesh size, shell radius or λ of
+ * an image-sum order): one faint line per followed target, their median in bold, and the
  * method's own prediction dashed, all as relative deviation from the tight Ewald value. Log–log.
  */
 import { scaleLog } from 'd3';
@@ -22,6 +22,8 @@ export interface ConvergenceData {
   readonly plainTicks?: boolean;
   /** The floor below which deviations are not resolved (the reference's own tolerance). */
   readonly floor?: number;
+  /** y axis title (default: relative deviation from Ewald). */
+  readonly yLabel?: string;
 }
 
 function median(v: ArrayLike<number>): number {
@@ -47,7 +49,7 @@ export function convergencePlot(d: ConvergenceData, width = 520, height = 300): 
   const y = scaleLog().domain(decadeDomain(lo, hi)).range([f.bottom, f.top]).clamp(true);
   let body = text(d.title, { x: f.left, y: 16, fill: THEME.ink, 'font-size': 12.5, 'font-weight': 600 });
   body += axisBottom({ scale: x, log: true, title: d.xLabel, ...(d.plainTicks ? { ticks: d.x, format: (v: number) => String(v) } : {}) }, f.bottom, f.top);
-  body += axisLeft({ scale: y, log: true, title: 'relative deviation from Ewald' }, f.left, f.right);
+  body += axisLeft({ scale: y, log: true, title: d.yLabel ?? 'relative deviation from Ewald' }, f.left, f.right);
   const nt = d.errors.length ? d.errors[0].length : 0;
   let lines = '';
   for (let t = 0; t < nt; t++) {

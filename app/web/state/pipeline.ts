@@ -1,23 +1,31 @@
 /**
  * Compute: runs what the comparison needs, in the worker, one request at a time — each slot's method
  * (unless already computed for these targets), the targets' neighbours, then the statistics — with
- * one progress bar over all of it. Also loading a file, cancelling, and the convergence measurement.
+ * one progress bar over all of it. Also cancelling and the convergence measurement (loading a file: loadActions.ts).
  */
 import { CancelledError, type ComputeClient, type Outcome, WorkerCrashError } from '../worker/client';
-import type { ComparePayload, DemoPayload, ForcesPayload, NeighboursPayload, ReadPayload, RequestBody, SweepPayload } from '../worker/protocol';
+import type { ComparePayload, DemoPayload, ForcesPayload, NeighboursPayload, RequestBody, SweepPayload } from '../worker/protocol';
 import { planSliced } from './planBudget';
-import { boxParse, draftParse } from './settings';
-import { demoSnapshotFrom, fileSnapshotMake } from './snapshotLoad';
+import { draftParse } from './settings';
+import { demoSnapshotFrom } from './snapshotLoad';
 import { type AppState, appStore } from './store';
 import { COMPARE_NS, DemoPendingError, type RunPlan, type SlotPlan, calibrationKind, neighbourCostNs, runPlanMake } from './runPlan';
 import { rowsPick } from './targets';
-import type { Comparison, ConvergenceRun, ConvergenceSeries, MethodRun, NeighbourRun, Snapshot } from './types';
+import { copyChunked } from '../worker/chunkedCopy';
+import type { MethodForcesPayload } from '../worker/methodRequests';
+import { methodRequestMore, methodRunFrom, orderTracesRun } from './orderRuns';
+import type { Comparison, ConvergenceRun, ConvergenceSeries, MethodRun, NeighbourRun } from './types';
 
 let client: ComputeClient | null = null;
 
 /** Connects the store to the worker client (the page passes a real one, tests a fake). */
 export function computeClientSet(next: ComputeClient | null): void {
   client = next;
+}
+
+/** The worker client in use (null before the page connects one). */
+export function computeClient(): ComputeClient | null {
+  return client;
 }
 
 /** Most method results kept for re-use, and most bytes of accelerations they hold; the oldest go first. */
@@ -32,7 +40,7 @@ const set = (patch: Partial<AppState>) => appStore.setState(patch);
 
 function errorText(error: unknown): string {
   const text = error instanceof Error ? error.message : String(error);
-  return error instanceof WorkerCrashError ? `${text} (a fresh worker has been started; your data are kept)` : text;
+  return error instanceof WorkerCrashError ? `the computing worker stopped: ${text}; restarted — the snapshot and finished results are kept` : text;
 }
 
 function fail(message: string): void {
@@ -144,7 +152,7 @@ export async function computeStart(): Promise<void> {
         weight: 1,
         phase: 'accelerations from the file',
         go: async () => {
-          const acc = targets.all ? snapshot.accelerations!.slice() : rowsPick(snapshot.accelerations!, targets.indices, 3);
+          const acc = targets.all ? await copyChunked(snapshot.accelerations!) : rowsPick(snapshot.accelerations!, targets.indices, 3);
           runsAdd({ key: sp.key, method: 'file', label: sp.label, targetsKey: targets.key, acc, ewald: null, mesh: null, wrapped: 0, workerMs: 0 }, keep);
         },
       };
@@ -153,13 +161,16 @@ export async function computeStart(): Promise<void> {
       weight: Math.max(1, sp.expectedMs),
       phase: sp.label,
       go: async (progress) => {
-        // copies: the snapshot's own arrays stay with the page while these move to the worker
-        const base = { positions: snapshot.positions.slice(), masses: snapshot.masses.slice(), box: snapshot.box, targets: rows() };
-        const request: RequestBody = opts.method === 'ewald' ? { type: 'ewald', ...base, options: opts.options } : { type: 'mesh', ...base, options: opts.options };
-        const out = (await c.run(request, progress)) as Outcome<ForcesPayload>;
+        // copies (made in slices): the snapshot's own arrays stay with the page while these move to the worker
+        const base = { positions: await copyChunked(snapshot.positions), masses: await copyChunked(snapshot.masses), box: snapshot.box, targets: rows() };
+        if (!current()) throw new CancelledError();
+        const request: RequestBody =
+          opts.method === 'ewald' ? { type: 'ewald', ...base, options: opts.options } : opts.method === 'mesh' ? { type: 'mesh', ...base, options: opts.options } : methodRequestMore(opts, base);
+        const out = (await c.run(request, progress)) as Outcome<ForcesPayload | MethodForcesPayload>;
         workerMs += out.workerMs;
         calibrate(calibrationKind(sp.method, targets.all), sp.plan.costNs / 1e6, out.workerMs);
         const p = out.payload;
+        if (p.kind === 'methodForces') return runsAdd(methodRunFrom(sp, targets.key, p, out.workerMs), keep);
         runsAdd({ key: sp.key, method: sp.method, label: sp.label, targetsKey: targets.key, acc: p.acc, ewald: p.ewald, mesh: p.mesh, wrapped: p.wrapped, workerMs: out.workerMs }, keep);
       },
     };
@@ -175,7 +186,9 @@ export async function computeStart(): Promise<void> {
       weight: Math.max(1, neighbourCostNs(K, snapshot.n) / 1e6),
       phase: 'nearest neighbours',
       go: async (progress) => {
-        const out = (await c.run({ type: 'neighbours', positions: snapshot.positions.slice(), box: snapshot.box, targets: rows(), k: NEIGHBOUR_K }, progress)) as Outcome<NeighboursPayload>;
+        const positions = await copyChunked(snapshot.positions);
+        if (!current()) throw new CancelledError();
+        const out = (await c.run({ type: 'neighbours', positions, box: snapshot.box, targets: rows(), k: NEIGHBOUR_K }, progress)) as Outcome<NeighboursPayload>;
         workerMs += out.workerMs;
         calibrate('neighbours', neighbourCostNs(K, snapshot.n) / 1e6, out.workerMs);
         const p = out.payload;
@@ -190,7 +203,9 @@ export async function computeStart(): Promise<void> {
     phase: 'statistics',
     go: async (progress) => {
       const runs = get().runs;
-      const out = (await c.run({ type: 'compare', accA: runs[plan.a.key].acc.slice(), accB: runs[plan.b.key].acc.slice(), worst: 50 }, progress)) as Outcome<ComparePayload>;
+      const accA = await copyChunked(runs[plan.a.key].acc), accB = await copyChunked(runs[plan.b.key].acc);
+      if (!current()) throw new CancelledError();
+      const out = (await c.run({ type: 'compare', accA, accB, worst: 50 }, progress)) as Outcome<ComparePayload>;
       workerMs += out.workerMs;
       calibrate('compare', (K * COMPARE_NS) / 1e6, out.workerMs);
       compared = out.payload;
@@ -255,56 +270,7 @@ export function demoReturn(): Promise<void> {
   return computeStart();
 }
 
-/**
- * Loads a snapshot file (parsed in the worker) and computes its comparison: its own accelerations
- * against Ewald when it carries them, else the coarse mesh against Ewald. The box is guessed from the
- * coordinates unless a shared link gave one for this file. Resolves when the comparison has ended.
- */
-export async function fileLoad(name: string, bytes: Uint8Array): Promise<Snapshot | null> {
-  if (!client) {
-    fail('the compute worker is not available');
-    return null;
-  }
-  const s0 = get();
-  const id = s0.computeId + 1;
-  set({ status: 'loading', phase: `reading ${name}`, message: '', progress: 0, computeId: id, startedAt: performance.now() });
-  let payload: ReadPayload;
-  try {
-    const out = await client.run({ type: 'read', bytes, fileName: name }, (f) => {
-      if (get().computeId === id) set({ progress: f });
-    });
-    payload = out.payload as ReadPayload;
-  } catch (e) {
-    if (get().computeId !== id || e instanceof CancelledError) return null;
-    fail(errorText(e));
-    return null;
-  }
-  if (get().computeId !== id) return null;
-  const s = get();
-  const link = s.wantedFile && s.wantedFile.name === name ? s.wantedFile.draft : null;
-  let box = null;
-  if (link) {
-    try {
-      box = boxParse(link.box);
-    } catch {
-      box = null;
-    }
-  }
-  const { snapshot, boxText } = fileSnapshotMake(name, payload, box);
-  // a shared link's slots and box win for the file it names; otherwise the file's own defaults
-  const draft = link
-    ? link
-    : {
-        ...s.draft,
-        a: snapshot.accelerations ? { ...s.draft.a, method: 'file' as const } : s.draft.a.method === 'file' ? { ...s.draft.a, method: 'mesh' as const } : s.draft.a,
-        b: snapshot.accelerations || s.draft.b.method === 'file' ? { ...s.draft.b, method: 'ewald' as const } : s.draft.b,
-        box: boxText ?? s.draft.box,
-      };
-  set({ snapshot, draft, comparison: null, selected: null, convergence: null, convergenceStatus: 'idle', wantedFile: null });
-  await yieldTask();
-  await computeStart();
-  return snapshot;
-}
+// loading a file (describe, mapping step, load) lives in loadActions.ts
 
 /** Tolerances and mesh sizes swept by the convergence measurement, and the reference tolerance. */
 export const SWEEP_TOLERANCES = [1e-2, 1e-3, 1e-4, 1e-5, 1e-6, 1e-7, 1e-8];
@@ -354,11 +320,15 @@ export async function convergenceStart(): Promise<void> {
   const methods = [cmp.runA, cmp.runB].filter((r) => r.method === 'ewald' || r.method === 'mesh');
   const ewaldRun = methods.find((r) => r.method === 'ewald');
   const softening = ewaldRun?.ewald?.softening ?? { kind: 'none' as const };
-  const G = ewaldRun?.ewald?.G ?? methods.find((r) => r.mesh)?.mesh?.G ?? 1;
-  const base = () => ({ positions: snapshot.positions.slice(), masses: snapshot.masses.slice(), box: snapshot.box, targets: targets.slice() });
+  const G = ewaldRun?.ewald?.G ?? methods.find((r) => r.mesh)?.mesh?.G ?? cmp.runA.order?.G ?? cmp.runB.order?.G ?? cmp.runB.pme?.G ?? 1;
+  const base = async () => {
+    const positions = await copyChunked(snapshot.positions), masses = await copyChunked(snapshot.masses);
+    if (!current()) throw new CancelledError(); // superseded while copying: do not cancel the newer run
+    return { positions, masses, box: snapshot.box, targets: targets.slice() };
+  };
   try {
     const ewaldTols = methods.some((r) => r.method === 'ewald') ? SWEEP_TOLERANCES : [];
-    const sweepE = (await c.run({ type: 'sweep', method: 'ewald', ...base(), options: [...ewaldTols, SWEEP_REFERENCE_TOL].map((tol) => ({ tol, G, softening })) })) as Outcome<SweepPayload>;
+    const sweepE = (await c.run({ type: 'sweep', method: 'ewald', ...(await base()), options: [...ewaldTols, SWEEP_REFERENCE_TOL].map((tol) => ({ tol, G, softening })) })) as Outcome<SweepPayload>;
     if (!current()) return;
     const ref = sweepE.payload.acc[sweepE.payload.acc.length - 1];
     const series: ConvergenceSeries[] = [];
@@ -373,7 +343,7 @@ export async function convergenceStart(): Promise<void> {
       });
     }
     if (methods.some((r) => r.method === 'mesh')) {
-      const sweepM = (await c.run({ type: 'sweep', method: 'mesh', ...base(), options: SWEEP_MESHES.map((mesh) => ({ mesh, G })) })) as Outcome<SweepPayload>;
+      const sweepM = (await c.run({ type: 'sweep', method: 'mesh', ...(await base()), options: SWEEP_MESHES.map((mesh) => ({ mesh, G })) })) as Outcome<SweepPayload>;
       if (!current()) return;
       series.push({
         method: 'mesh',
@@ -384,7 +354,9 @@ export async function convergenceStart(): Promise<void> {
         predicted: SWEEP_MESHES.map(() => null),
       });
     }
-    const run: ConvergenceRun = { snapshotId: snapshot.id, targets, referenceTol: SWEEP_REFERENCE_TOL, series };
+    const orders = await orderTracesRun(c, cmp, base, ref, SWEEP_WORST);
+    if (!current()) return;
+    const run: ConvergenceRun = { snapshotId: snapshot.id, targets, referenceTol: SWEEP_REFERENCE_TOL, series, orders };
     set({ convergence: run, convergenceStatus: 'done', convergenceMessage: '' });
   } catch (e) {
     if (!current()) return;

@@ -1,13 +1,15 @@
 /**
  * Planning in slices: measuring a large snapshot (Ewald's parameter choice, drawing a target sample)
- * takes tens of milliseconds each, and a plan may need several. Inside `withPlanBudget(1, …)` the plan
- * does at most one such piece and throws PlanPending if it needs more; the caller yields to the page and
- * calls again (finished pieces are memoised), so no single task holds the page for long.
+ * takes tens to hundreds of milliseconds each, and a plan may need several. Large snapshots are measured
+ * in the plan worker (state/planOffThread.ts): a piece not yet there throws PlanPending carrying the
+ * worker's answer to wait for. Without the worker, inside `withPlanBudget(1, …)` the plan does at most
+ * one piece on the page and throws PlanPending if it needs more. Either way the caller yields to the
+ * page and calls again (finished pieces are memoised), so the page stays responsive.
  */
 
-/** The plan needs another piece of work; call again after yielding. */
+/** The plan needs another piece of work; call again after yielding (and after `wait`, when given). */
 export class PlanPending extends Error {
-  constructor() {
+  constructor(readonly wait: Promise<unknown> | null = null) {
     super('plan pending');
     this.name = 'PlanPending';
   }
@@ -36,15 +38,22 @@ export function withPlanBudget<T>(pieces: number, f: () => T): T {
   }
 }
 
-/** Runs `f` piece by piece, yielding a task between pieces, until it returns; stops when `alive()` turns false. */
+/**
+ * Runs `f` piece by piece, yielding a task between pieces (and waiting for what the plan worker is
+ * measuring), until it returns; stops when `alive()` turns false.
+ */
 export async function planSliced<T>(f: () => T, alive: () => boolean): Promise<T | null> {
   for (;;) {
+    let wait: Promise<unknown> | null = null;
     try {
       return withPlanBudget(1, f);
     } catch (e) {
       if (!(e instanceof PlanPending)) throw e;
+      wait = e.wait;
     }
-    await new Promise((r) => setTimeout(r, 0));
+    // a failed answer is remembered by whoever asked; the next attempt sees it
+    if (wait) await wait.catch(() => undefined);
+    else await new Promise((r) => setTimeout(r, 0));
     if (!alive()) return null;
   }
 }

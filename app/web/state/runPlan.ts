@@ -5,11 +5,14 @@
  */
 import { type MethodOptions, methodOptionsKey, methodOptionsParse } from '../methods/methodOptions';
 import { type MethodPlan, methodPlan } from '../methods/methodPlan';
+import { moreOptionsLabel } from '../methods/moreOptions';
 import type { MethodId } from '../methods/registry';
 import { AUTO_SAMPLE, boxParse, draftParse } from './settings';
 import { DEMO_ON_PAGE_MAX, demoSnapshotLoad, snapshotWithBox } from './snapshotLoad';
 import type { AppState } from './store';
 import { planWork } from './planBudget';
+import { referenceForAll } from './referenceChoice';
+import { PLAN_OFF_THREAD_MIN_N, methodPlanOffThread, planOffThread, sampleOffThread } from './planOffThread';
 import { targetSetMake } from './targets';
 import type { Snapshot, TargetSet } from './types';
 
@@ -72,6 +75,8 @@ export function methodLabel(m: MethodOptions, snapshot: Snapshot): string {
       return `mesh ${m.options.mesh}³`;
     case 'file':
       return `file (${snapshot.accelerationColumns?.join(', ') ?? 'accelerations'})`;
+    default:
+      return moreOptionsLabel(m, tolText);
   }
 }
 
@@ -81,12 +86,50 @@ function planCached(snapshot: Snapshot, m: MethodOptions, key: string, targets: 
   const k = `${snapshot.id}|${key}|${targets}`;
   let p = planMemo.get(k);
   if (!p) {
-    if (m.method === 'ewald') planWork(snapshot.n);
-    p = methodPlan(m, snapshot.positions, snapshot.masses, snapshot.box, targets);
+    // large snapshots are measured in the plan worker (PlanPending until it answers); else, or when it
+    // failed, on the page in budgeted pieces
+    // (PME's plan runs the engine's whole setup, hundreds of ms even for small snapshots: always off the page)
+    const offThread = planOffThread(m.method === 'pme' ? Math.max(snapshot.n, PLAN_OFF_THREAD_MIN_N) : snapshot.n);
+    const remote = m.method !== 'file' && offThread ? methodPlanOffThread(k, snapshot, snapshot.box, m, targets) : null;
+    if (remote) p = remote;
+    else {
+      if (m.method !== 'file' && m.method !== 'mesh') planWork(snapshot.n);
+      p = methodPlan(m, snapshot.positions, snapshot.masses, snapshot.box, targets);
+    }
     if (planMemo.size > 64) planMemo.clear();
     planMemo.set(k, p);
   }
   return p;
+}
+
+const sampleSets = new WeakMap<Int32Array, TargetSet>();
+let allSet: TargetSet | null = null;
+
+/**
+ * targetSetMake, with large samples drawn in the plan worker (PlanPending until it answers); with the
+ * plan worker, "all" of a large snapshot is a plain count (a few ms for 10⁶) and needs no budget.
+ */
+function targetsFor(n: number, count: number | null, seed: number): TargetSet {
+  if ((count === null || count >= n) && planOffThread(n)) {
+    if (allSet?.indices.length !== n) {
+      const indices = new Int32Array(n);
+      for (let i = 0; i < n; i++) indices[i] = i;
+      allSet = { key: 'all', all: true, indices };
+    }
+    return allSet;
+  }
+  if (count !== null && count < n && planOffThread(n)) {
+    const indices = sampleOffThread(n, count, seed);
+    if (indices) {
+      let set = sampleSets.get(indices);
+      if (!set) {
+        set = { key: `sample:${count}:${seed}`, all: false, indices };
+        sampleSets.set(indices, set);
+      }
+      return set;
+    }
+  }
+  return targetSetMake(n, count, seed);
 }
 
 /** Calibration key of a method's runs: all-particle and per-target loops are timed apart. */
@@ -123,39 +166,45 @@ export function snapshotForRun(state: AppState): Snapshot {
 export function runPlanMake(state: AppState, snapshotIn?: Snapshot): RunPlan {
   const snapshot = snapshotIn ?? snapshotForRun(state);
   const settings = draftParse(state.draft);
+  const slotFor = (method: MethodId, options: MethodOptions, targets: TargetSet): SlotPlan => {
+    const key = `${snapshot.id}|${targets.key}|${methodOptionsKey(options)}`;
+    const plan = planCached(snapshot, options, methodOptionsKey(options), targets.indices.length);
+    const cached = key in state.runs;
+    return {
+      method,
+      options,
+      key,
+      label: methodLabel(options, snapshot),
+      plan,
+      cached,
+      expectedMs: cached ? 0 : calibrated(state, calibrationKind(method, targets.all), plan.costNs),
+    };
+  };
   const slot = (name: 'a' | 'b', targets: TargetSet): SlotPlan => {
     const d = state.draft[name];
     const options = methodOptionsParse(d.method, d.params, settings.G);
     if (options.method === 'file' && !snapshot.accelerations) {
       throw new RangeError(`method ${name.toUpperCase()}: this snapshot carries no accelerations (a header naming ax, ay, az is needed for “from file”)`);
     }
-    const key = `${snapshot.id}|${targets.key}|${methodOptionsKey(options)}`;
-    const plan = planCached(snapshot, options, methodOptionsKey(options), targets.indices.length);
-    const cached = key in state.runs;
-    return {
-      method: d.method,
-      options,
-      key,
-      label: methodLabel(options, snapshot),
-      plan,
-      cached,
-      expectedMs: cached ? 0 : calibrated(state, calibrationKind(d.method, targets.all), plan.costNs),
-    };
+    const sp = slotFor(d.method, options, targets);
+    // asked for all particles: B's reference may be particle-mesh Ewald when direct Ewald is too slow
+    return name === 'b' && settings.targets.kind !== 'auto' ? referenceForAll(sp, d.params, snapshot.n, targets, AUTO_BUDGET_MS, (o) => slotFor('pme', o, targets)) : sp;
   };
   const n = snapshot.n;
   const choice = settings.targets;
   let count: number | null = choice.kind === 'sample' ? choice.count : null;
   let autoSampledFromMs: number | null = null;
-  if (choice.kind === 'auto' && n > AUTO_SAMPLE) {
+  // (also below 10 000 particles: all targets of an image-sum order can take minutes)
+  if (choice.kind === 'auto' && n > AUTO_SMALLER[AUTO_SMALLER.length - 1]) {
     // Plan the sample first; only when all particles might fit the budget (judged from the sample's cost
     // per target, halved for the cheaper all-particle loop) is the all-particle plan worked out as well:
     // each plan measures the whole snapshot once, which takes a while for 10⁶ particles.
-    const sample = targetSetMake(n, AUTO_SAMPLE, settings.seed);
+    const sample = targetsFor(n, AUTO_SAMPLE, settings.seed);
     const sampleMs = slot('a', sample).expectedMs + slot('b', sample).expectedMs;
     const guessAll = (0.5 * sampleMs * n) / AUTO_SAMPLE + calibrated(state, 'neighbours', neighbourCostNs(n, n));
     let msAll = guessAll;
     if (guessAll <= 4 * AUTO_BUDGET_MS) {
-      const all = targetSetMake(n, null, settings.seed);
+      const all = targetsFor(n, null, settings.seed);
       msAll = slot('a', all).expectedMs + slot('b', all).expectedMs + calibrated(state, 'neighbours', neighbourCostNs(n, n));
     }
     if (msAll > AUTO_BUDGET_MS) {
@@ -164,13 +213,13 @@ export function runPlanMake(state: AppState, snapshotIn?: Snapshot): RunPlan {
       count = AUTO_SAMPLE;
       for (const c of AUTO_SMALLER) {
         if (sampleMs <= AUTO_BUDGET_MS) break;
-        const smaller = targetSetMake(n, c, settings.seed);
+        const smaller = targetsFor(n, c, settings.seed);
         count = c;
         if (slot('a', smaller).expectedMs + slot('b', smaller).expectedMs <= AUTO_BUDGET_MS) break;
       }
     }
   }
-  const targets = targetSetMake(n, count, settings.seed);
+  const targets = targetsFor(n, count, settings.seed);
   const a = slot('a', targets);
   const b = slot('b', targets);
   const neighboursKey = `${snapshot.id}|${targets.key}`;

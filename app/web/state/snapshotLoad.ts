@@ -1,7 +1,7 @@
 /** Snapshots for the store: the built-in demo, and a parsed file with a guessed or given box. */
 import { type Box, boxMake } from '../../../engine/box';
 import { demoSnapshot } from '../../../engine/demo/demoSnapshot';
-import type { ReadPayload } from '../worker/protocol';
+import type { LoadPayload } from '../worker/loadProtocol';
 import type { Snapshot } from './types';
 
 function sum(a: Float64Array): number {
@@ -96,30 +96,40 @@ export function contentHash(a: Float64Array): string {
   return (h >>> 0).toString(16).padStart(8, '0');
 }
 
-/** A snapshot from a parsed file and a box (given, or guessed when `box` is null). */
-export function fileSnapshotMake(fileName: string, r: ReadPayload, box: Box | null): { snapshot: Snapshot; boxText: string | null } {
-  const guess = box ? null : boxGuess(r.positions);
-  const b = box ?? guess!.box;
+/** What a loaded file's masses were, in words ("masses from “m”", "unit masses"). */
+function massWords(r: LoadPayload): string {
+  const from = r.sources.masses ?? (r.massColumn ? `“${r.massColumn}”` : null);
+  return from ? `masses from ${from}` : 'unit masses';
+}
+
+/**
+ * A snapshot from a file loaded in the worker, in the box the worker settled on (from the file, typed,
+ * or guessed), unless `box` overrides it (a shared link's box). `units` names the unit system, if any.
+ */
+export function fileSnapshotMake(fileName: string, r: LoadPayload, box: Box | null = null, units: string | null = null): { snapshot: Snapshot; boxText: string | null } {
+  const b = box ?? r.box;
+  const guessed = box === null && r.boxFrom === 'guessed';
+  const sub = r.every > 1 ? `, 1 in ${r.every} of ${r.total} particles` : '';
   return {
     snapshot: {
       id: `file:${fileName}:${r.count}:${contentHash(r.positions)}|box=${b.lx},${b.ly},${b.lz}`,
       kind: 'file',
-      source: `${fileName} (${r.format}${r.massColumn ? `, masses from “${r.massColumn}”` : ', unit masses'})`,
+      source: `${fileName} (${r.format}, ${massWords(r)}${sub}${units ? `; ${units}` : ''})`,
       fileName,
       seed: null,
       n: r.count,
       positions: r.positions,
       masses: r.masses,
       box: b,
-      boxGuessed: guess !== null,
+      boxGuessed: guessed,
       totalMass: sum(r.masses),
       accelerations: r.accelerations,
       accelerationColumns: r.accelerationColumns,
       ids: r.ids,
       columns: r.columns,
-      outside: countOutside(r.positions, b),
+      outside: box === null ? r.outside : countOutside(r.positions, b),
     },
-    boxText: guess ? guess.text : null,
+    boxText: box === null ? r.boxText : null,
   };
 }
 

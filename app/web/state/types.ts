@@ -5,6 +5,9 @@ import type { MeshParams } from '../../../engine/codeUnderTest/meshForces';
 import type { CdfPoints, LogHistogram } from '../../../engine/stats/bins';
 import type { ErrorSummary } from '../../../engine/stats/errorSummary';
 import type { MethodId } from '../methods/registry';
+import type { ImageSumParams } from '../../../engine/orders/imageSumOrder';
+import type { PmeParams } from '../../../engine/pme/pmeParams';
+import type { OrderTrace } from './orderRuns';
 
 export interface Snapshot {
   /** Identifies the particles (demo size and seed, or file name, size and a content hash). */
@@ -51,6 +54,9 @@ export interface MethodRun {
   readonly acc: Float64Array;
   readonly ewald: EwaldParams | null;
   readonly mesh: MeshParams | null;
+  /** Image-sum order or particle-mesh Ewald parameters used (orderRuns.ts), when the run is one. */
+  readonly order?: ImageSumParams | null;
+  readonly pme?: PmeParams | null;
   readonly wrapped: number;
   readonly workerMs: number;
 }
@@ -99,4 +105,6 @@ export interface ConvergenceRun {
   readonly targets: Int32Array;
   readonly referenceTol: number;
   readonly series: readonly ConvergenceSeries[];
+  /** Partial sums of the compared image-sum orders (orderRuns.ts). */
+  readonly orders?: readonly OrderTrace[];
 }

@@ -1,7 +1,8 @@
 /**
  * The plan of the next Compute for the panels (chosen parameters, predicted errors, expected time).
- * Planning measures the snapshot, so it runs after the render, in slices of one task each (see
- * planBudget.ts); meanwhile the panels keep showing the previous plan.
+ * Planning measures the snapshot, so it runs after the render: in the plan worker for large snapshots,
+ * else in slices of one task each (see planBudget.ts, planOffThread.ts). Meanwhile the panels keep the
+ * previous plan for a moment, then say "planning…".
  */
 import { useEffect, useState } from 'react';
 import { planSliced } from './planBudget';
@@ -16,6 +17,9 @@ export type RunPlanView =
 
 const PLANNING: RunPlanView = { plan: null, error: null, note: 'planning…' };
 
+/** A plan that takes longer than this (ms) replaces the previous one by "planning…". */
+const PLANNING_NOTE_AFTER_MS = 150;
+
 /** Recomputed when the snapshot, the run fields of the form, finished results or the calibration change. */
 export function useRunPlan(): RunPlanView {
   const snapshot = useApp((s) => s.snapshot);
@@ -29,11 +33,16 @@ export function useRunPlan(): RunPlanView {
   useEffect(() => {
     let alive = true;
     const state = appStore.getState();
+    const slow = setTimeout(() => {
+      if (alive) setView(PLANNING);
+    }, PLANNING_NOTE_AFTER_MS);
     planSliced(() => runPlanMake(state), () => alive).then(
       (plan) => {
+        clearTimeout(slow);
         if (alive && plan) setView({ plan, error: null });
       },
       (e: unknown) => {
+        clearTimeout(slow);
         if (!alive) return;
         if (e instanceof DemoPendingError) setView({ plan: null, error: null, note: e.message });
         else setView({ plan: null, error: e instanceof Error ? e.message : String(e) });
@@ -41,6 +50,7 @@ export function useRunPlan(): RunPlanView {
     );
     return () => {
       alive = false;
+      clearTimeout(slow);
     };
   }, [snapshot, runKey, runs, neighbours, calibration]);
   return view;

@@ -6,10 +6,10 @@
 import { demoSnapshot } from '../../../engine/demo/demoSnapshot';
 import { ewaldForces } from '../../../engine/ewald/ewald';
 import { meshForces } from '../../../engine/codeUnderTest/meshForces';
-import { snapshotRead } from '../../../engine/formats/registry';
 import { errorReport } from '../../../engine/stats/errorReport';
 import { neighbourTreeBuild, neighboursFind } from '../../../engine/stats/neighbours';
-import { columnsGuess, csvHeaderPeek } from '../io/columnGuess';
+import { describeRun, loadRun } from './loadRequests';
+import { methodRequestRun } from './methodRequests';
 import { PROGRESS_STEP, type RequestBody, type ResultPayload, type SweepPayload, type WorkerReply, type WorkerRequest, transferables } from './protocol';
 
 /** Sends a reply, moving the listed buffers instead of copying them. */
@@ -89,28 +89,14 @@ export async function requestRun(request: RequestBody, progress: (fraction: numb
       progress(1);
       return { kind: 'compare', ...r };
     }
-    case 'read': {
-      const columns = csvHeaderPeek(request.bytes);
-      const guess = columnsGuess(columns ?? []);
-      const s = await snapshotRead(request.bytes, request.fileName, {
-        ...(guess.accelerations ? { accelerations: guess.accelerations } : {}),
-        ...(guess.id ? { ids: guess.id } : {}),
-      });
-      progress(1);
-      return {
-        kind: 'read',
-        format: s.format,
-        count: s.count,
-        positions: s.positions,
-        masses: s.masses,
-        accelerations: s.accelerations ?? null,
-        ids: s.ids ?? null,
-        columns: s.columns,
-        massColumn: s.massColumn,
-        accelerationColumns: s.accelerations ? guess.accelerations : null,
-        idColumn: s.ids ? guess.id : null,
-      };
-    }
+    case 'describe':
+      return describeRun(request, progress);
+    case 'load':
+      return loadRun(request, progress);
+    case 'order':
+    case 'orderTrace':
+    case 'pme':
+      return methodRequestRun(request, progress);
     default:
       throw Object.assign(new Error(`unknown request type ${JSON.stringify((request as { type?: unknown })?.type)}`), { name: 'RequestError' });
   }

@@ -8,6 +8,10 @@ import type { EwaldOptions, EwaldParams } from '../../../engine/ewald/params';
 import type { MeshOptions, MeshParams } from '../../../engine/codeUnderTest/meshForces';
 import type { CdfPoints, LogHistogram } from '../../../engine/stats/bins';
 import type { ErrorSummary } from '../../../engine/stats/errorSummary';
+import type { DescribePayload, DescribeRequest, LoadPayload, LoadRequest } from './loadProtocol';
+import type { MethodPayload, MethodRequest } from './methodRequests';
+
+export type { DescribePayload, DescribeRequest, LoadPayload, LoadRequest } from './loadProtocol';
 
 interface ParticlesIn {
   /** Flat xyz, length units. */
@@ -52,13 +56,6 @@ export interface CompareRequest {
   readonly worst: number;
 }
 
-/** Parse a snapshot file (bytes of the whole file). */
-export interface ReadRequest {
-  readonly type: 'read';
-  readonly bytes: Uint8Array;
-  readonly fileName: string;
-}
-
 /** The built-in demo snapshot (engine/demo), for sizes too large to make on the page's thread. */
 export interface DemoRequest {
   readonly type: 'demo';
@@ -66,7 +63,7 @@ export interface DemoRequest {
   readonly seed: number;
 }
 
-export type RequestBody = DemoRequest | EwaldRequest | MeshRequest | SweepRequest | NeighboursRequest | CompareRequest | ReadRequest;
+export type RequestBody = DemoRequest | EwaldRequest | MeshRequest | SweepRequest | NeighboursRequest | CompareRequest | DescribeRequest | LoadRequest | MethodRequest;
 export type WorkerRequest = RequestBody & { readonly id: number };
 
 export interface ForcesPayload {
@@ -109,28 +106,13 @@ export interface ComparePayload {
   readonly cdf: CdfPoints;
 }
 
-export interface ReadPayload {
-  readonly kind: 'read';
-  readonly format: string;
-  readonly count: number;
-  readonly positions: Float64Array;
-  readonly masses: Float64Array;
-  readonly accelerations: Float64Array | null;
-  readonly ids: Float64Array | null;
-  readonly columns: readonly string[];
-  readonly massColumn: string | null;
-  /** The columns read as accelerations, or null when the file has none recognised. */
-  readonly accelerationColumns: readonly [string, string, string] | null;
-  readonly idColumn: string | null;
-}
-
 export interface DemoPayload {
   readonly kind: 'demo';
   readonly positions: Float64Array;
   readonly masses: Float64Array;
 }
 
-export type ResultPayload = DemoPayload | ForcesPayload | SweepPayload | NeighboursPayload | ComparePayload | ReadPayload;
+export type ResultPayload = DemoPayload | ForcesPayload | SweepPayload | NeighboursPayload | ComparePayload | DescribePayload | LoadPayload | MethodPayload;
 
 /** Fraction done in [0, 1]; sent at most every PROGRESS_STEP and always at 1. */
 export interface ProgressReply {
