@@ -19,7 +19,6 @@ import { type OptionSpec, argsParse } from './argParse';
 import { outputProblem, outputWriteAtomic } from './atomicOutput';
 import { CHECK_SCHEMA, checkFigures, checkReportJson, checkTable, requirementsEvaluate } from './checkReport';
 import { REQUIRE_KEYS, REQUIRE_OPS, requirementParse } from './checkRequire';
-import { checkSvgFiles } from './checkSvg';
 import { CliError, UsageError } from './cliErrors';
 import type { CliIo } from './cliIo';
 import { engineErrorExplain, outsideWarning, targetIds } from './engineErrors';
@@ -206,6 +205,8 @@ export async function checkRun(argv: readonly string[], io: CliIo, helpText: () 
     await outputWriteAtomic(residualsPath, csvChunks(columns, K));
   }
   if (svgDir !== undefined) {
+    // loaded only when asked for: the plot code (shared with the web app) brings d3's scales and formats
+    const { checkSvgFiles } = await import('./checkSvg');
     const files = checkSvgFiles({ rel: f.rel, accA, accB, worst: f.worst, positions: snapshot.positions, box, targets: result.targets });
     try {
       mkdirSync(svgDir, { recursive: true });

@@ -15,8 +15,9 @@ import { CliError, UsageError } from './cliErrors';
 import type { CliIo } from './cliIo';
 import { engineErrorExplain, outsideWarning, targetIds } from './engineErrors';
 import { forcesDirectRun } from './forcesDirect';
+import { forcesPmeRun } from './forcesPme';
 import { FORCES_COMMAND, forcesSettings } from './forcesOptions';
-import { ewaldForcesThreads } from './parallelEwald';
+import { ewaldForcesThreads, ewaldThreadsWarm } from './parallelEwald';
 import { progressLine } from './progress';
 import { particlePlace, snapshotFileRead } from './snapshotFile';
 import { forcesSummary } from './summary';
@@ -76,6 +77,7 @@ export async function forcesRun(argv: readonly string[], io: CliIo, helpText: ()
   if (resolve(out) === resolve(file)) throw new UsageError(`--out ${out} is the input file; choose another name`, COMMAND);
   const problem = outputProblem(out);
   if (problem) throw new CliError(`--out ${out}: ${problem}`);
+  if (settings.method === 'ewald') ewaldThreadsWarm(settings.threads); // worker start-up overlaps the reading
   const t0 = io.now();
   const snapshot = await snapshotFileRead(file, settings.mapping, {
     maxBytes: settings.maxBytes,
@@ -86,6 +88,7 @@ export async function forcesRun(argv: readonly string[], io: CliIo, helpText: ()
   if (settings.direct) return forcesDirectRun(settings, settings.direct, snapshot, box, io, t0);
   const softening = settings.softeningFromColumn ? softeningFromColumn(snapshot, settings.softeningFromColumn, file) : settings.softening;
   const outside = snapshotValidate(snapshot, file, box, { softened: softening.kind !== 'none', coincident: false });
+  if (settings.method === 'pme') return forcesPmeRun(settings, snapshot, box, softening, outside, io, t0);
   const n = snapshot.count;
   const targets = targetsResolve(settings.targets, n);
   const all = targets.length === n && settings.targets.kind === 'all';

@@ -13,11 +13,12 @@ import { mappingFromOptions, sizeParse } from './mappingOptions';
 import { boxParse, integerParse, positiveParse, softeningParse, targetsCountParse, tolParse } from './optionValues';
 import { ORDER_OPTIONS, ORDER_OPTION_NAMES, type OrderSettings, orderSettings } from './orderOptions';
 import { defaultThreads } from './parallelEwald';
+import { PME_OPTIONS, PME_OPTION_NAMES, PME_TOL_DEFAULT, type PmeOverrides, pmeOverridesParse } from './pmeOptions';
 
 export const FORCES_COMMAND = 'forces';
 const COMMAND = FORCES_COMMAND;
 
-export const FORCES_USAGE = 'torusgrav forces SNAPSHOT --box L|Lx,Ly,Lz|@PATH --out FILE.csv [--method ewald|direct --order NAME] [options]';
+export const FORCES_USAGE = 'torusgrav forces SNAPSHOT --box L|Lx,Ly,Lz|@PATH --out FILE.csv [--method ewald|direct --order NAME|pme] [options]';
 
 /** G to 8 significant digits, in exponent form when very small or large. */
 function gText(G: number): string {
@@ -54,8 +55,13 @@ export const FORCES_ABOUT = [
   'only - no phi column, because the plain sums\' potentials carry order-dependent constants. The',
   'acceleration is the partial sum of the largest shell (--shells), the λ → 0 extrapolation of the',
   'screened sums, or the nearest-image sum. --softening, --softening-column, --accelerations and',
-  '--threads apply to the Ewald method only; --tol is then the tolerance of the exact parts, in',
+  '--threads apply to the Ewald and pme methods only; --tol is then the tolerance of the exact parts, in',
   '[1e-14, 1e-2] (default 1e-10). See torusgrav converge for the partial sums shell by shell.',
+  'With --method pme (particle-mesh Ewald: every particle at once in O(N log N), for the error map of a',
+  'whole snapshot): the same columns id,ax,ay,az,phi (phi from the same split: mesh potential plus the',
+  'real-space sum), the same conventions; --tol is the rms relative error over all particles (see --tol);',
+  'the chosen mesh, B-spline order, alpha, cutoff and the predicted rms error are printed. Forces are',
+  'computed for all particles; --targets/--sample only choose the rows written.',
   'Conventions: a = -grad phi points toward mass; phi = -G m/r near a mass; the mean density is removed',
   '(zero-mean potential, no self-force), as in comoving simulations.',
   '',
@@ -72,8 +78,9 @@ export const FORCES_OPTIONS: readonly OptionSpec[] = [
     help: 'periodic box: one side (cube) or three sides, each > 0; home cell [0,Lx)x[0,Ly)x[0,Lz); or @PATH to read it from the file: an HDF5 dataset (@/header/box), an attribute (@/bodies#side; @/#BoxSize on the root group) or an .npz array (@box) holding one or three sides (required)',
   },
   { name: 'out', metavar: 'FILE.csv', help: 'output file; written whole or not at all (an existing file stays untouched on failure) (required)' },
-  { name: 'method', metavar: 'ewald|direct', help: 'ewald: the exact periodic reference; direct: the plain image sum in the summation order --order (see above)', defaultText: 'ewald' },
-  ...ORDER_OPTIONS.map((s) => ({ ...s, help: `--method direct only: ${s.help}` })),
+  { name: 'method', metavar: 'ewald|direct|pme', help: 'ewald: the exact periodic reference; direct: the plain image sum in the summation order --order (see above); pme: particle-mesh Ewald for all particles at once, fast, to an rms tolerance (see above)', defaultText: 'ewald' },
+  ...ORDER_OPTIONS.map((s) => ({ ...s, help: s.name === 'order' ? `--method direct: ${s.help}; --method pme: the B-spline order P, an integer from 2 to 12 (default: chosen from 4 to 8)` : `--method direct only: ${s.help}` })),
+  ...PME_OPTIONS,
   { name: 'positions', metavar: 'SPEC', help: 'where the positions are: three columns x,y,z (names or numbers) or one N×3 array/dataset', defaultText: 'text: x,y,z; binary: proposed by shape and name' },
   { name: 'masses', metavar: 'SPEC | none', help: 'the mass column/array/dataset; none ignores any mass column (all masses 1)', defaultText: 'text: m or mass; binary: proposed by name' },
   { name: 'accelerations', metavar: 'SPEC', help: "the code-under-test accelerations (x,y,z or one N×3 array/dataset), in the file's units: adds rel_err to the output and error percentiles to the report" },
@@ -81,12 +88,12 @@ export const FORCES_OPTIONS: readonly OptionSpec[] = [
   { name: 'softening-column', metavar: 'SPEC', help: 'per-particle softening lengths; with --softening plummer or spline naming the kernel. The reference uses one length: all must be equal' },
   { name: 'units', metavar: 'PRESET', help: `units of the file, which set G: ${UNIT_PRESETS.map((u) => u.name).join(', ')} (see above)`, defaultText: 'G1, i.e. G = 1' },
   { name: 'G', metavar: 'g', help: 'gravitational constant, > 0 (instead of --units)', defaultText: '1' },
-  { name: 'tol', metavar: 'T', help: 'requested relative force error, strictly between 0 and 1: alpha, cutoffs and cells are chosen (Kolafa & Perram error estimates with a safety margin, more for clustered data) so that every particle\'s |a - a_exact|/|a_exact| stays below T', defaultText: '1e-6' },
+  { name: 'tol', metavar: 'T', help: 'requested relative force error, strictly between 0 and 1: alpha, cutoffs and cells are chosen (Kolafa & Perram error estimates with a safety margin, more for clustered data) so that every particle\'s |a - a_exact|/|a_exact| stays below T. With --method pme T is an rms: the root mean square over all particles of |a - a_exact|/|a_exact| (Essmann et al. 1995 mesh, error model of Deserno & Holm 1998 with our clustering correction), so single particles may exceed it', defaultText: '1e-6; 1e-5 with --method pme' },
   { name: 'targets', metavar: 'all|K', help: 'particles that get forces: all, or the first K data rows', defaultText: 'all' },
   { name: 'sample', metavar: 'K', help: 'instead of --targets: a seeded random subsample of K particles (ids sorted)' },
   { name: 'seed', metavar: 'S', help: 'integer seed of --sample; the same seed gives the same subsample', defaultText: '1' },
   { name: 'softening', metavar: 'none|plummer:EPS|spline:H', help: 'softened pair force: Plummer length EPS, or cubic spline kernel with support H (box units); with --softening-column just plummer or spline', defaultText: 'none' },
-  { name: 'threads', metavar: 'N', help: 'worker threads (runs under 2048 particles use one)', defaultText: 'all cores' },
+  { name: 'threads', metavar: 'N', help: 'threads to compute on, this one included (runs under 2048 particles use one)', defaultText: 'all cores' },
   { name: 'max-size', metavar: 'SIZE', help: 'load limit: the largest amount of file data read (uncompressed), e.g. 800MB, 4GiB; larger files are refused unless subsampled', defaultText: '1GiB' },
   { name: 'every', metavar: 'K', help: 'read every K-th particle only (rows 0, K, 2K, …), masses multiplied by N/N_kept so the mean density stays; the limit then applies to 1/K of the data', defaultText: '1' },
   { name: 'help', help: 'show this help' },
@@ -110,7 +117,9 @@ export interface ForcesSettings {
   readonly mapping: ColumnMapping;
   readonly maxBytes: number;
   readonly every: number;
-  readonly method: 'ewald' | 'direct';
+  readonly method: 'ewald' | 'direct' | 'pme';
+  /** The parameter overrides of --method pme, else null. */
+  readonly pme: PmeOverrides | null;
   /** The summation order of --method direct, else null. */
   readonly direct: OrderSettings | null;
   /** Whether --tol was given (--method direct then passes it to the image sum). */
@@ -118,17 +127,24 @@ export interface ForcesSettings {
 }
 
 /** Options that apply to one method only, checked against the chosen one. */
-function methodCheck(values: ReadonlyMap<string, string>): 'ewald' | 'direct' {
+function methodCheck(values: ReadonlyMap<string, string>): 'ewald' | 'direct' | 'pme' {
   const text = values.get('method');
   const method = text === undefined ? 'ewald' : text.trim().toLowerCase();
-  if (method !== 'ewald' && method !== 'direct') throw new UsageError(`--method must be ewald or direct, got ${JSON.stringify(text)}`, COMMAND);
+  if (method !== 'ewald' && method !== 'direct' && method !== 'pme') throw new UsageError(`--method must be ewald, direct or pme, got ${JSON.stringify(text)}`, COMMAND);
   const given = (names: readonly string[]) => names.filter((n) => values.has(n)).map((n) => `--${n}`);
+  const pmeOnly = method === 'pme' ? [] : given(PME_OPTION_NAMES);
+  if (pmeOnly.length > 0) throw new UsageError(`${pmeOnly.join(', ')} ${pmeOnly.length === 1 ? 'applies' : 'apply'} to --method pme only`, COMMAND);
+  if (method === 'pme') {
+    const wrong = given(ORDER_OPTION_NAMES.filter((n) => n !== 'order'));
+    if (wrong.length > 0) throw new UsageError(`${wrong.join(', ')} ${wrong.length === 1 ? 'applies' : 'apply'} to --method direct only`, COMMAND);
+    return method;
+  }
   if (method === 'ewald') {
     const wrong = given(ORDER_OPTION_NAMES);
     if (wrong.length > 0) throw new UsageError(`${wrong.join(', ')} ${wrong.length === 1 ? 'applies' : 'apply'} to --method direct only`, COMMAND);
   } else {
     const wrong = given(['softening', 'softening-column', 'accelerations', 'threads']);
-    if (wrong.length > 0) throw new UsageError(`${wrong.join(', ')} ${wrong.length === 1 ? 'applies' : 'apply'} to --method ewald only (the plain image sums are unsoftened, single-threaded and compare with nothing)`, COMMAND);
+    if (wrong.length > 0) throw new UsageError(`${wrong.join(', ')} ${wrong.length === 1 ? 'applies' : 'apply'} to --method ewald and pme only (the plain image sums are unsoftened, single-threaded and compare with nothing)`, COMMAND);
   }
   return method;
 }
@@ -187,9 +203,10 @@ export function forcesSettings(argv: readonly string[]): ForcesSettings | 'help'
     box: mapping.box !== undefined ? null : boxParse(box, COMMAND),
     G: units ? units.G : G === undefined ? 1 : positiveParse(G, 'G', COMMAND),
     units,
-    tol: tol === undefined ? 1e-6 : tolParse(tol, COMMAND),
+    tol: tol === undefined ? (method === 'pme' ? PME_TOL_DEFAULT : 1e-6) : tolParse(tol, COMMAND),
     tolGiven: tol !== undefined,
     method,
+    pme: method === 'pme' ? pmeOverridesParse(values, COMMAND) : null,
     direct,
     targets,
     softening: soft,

@@ -1,16 +1,26 @@
 /**
- * Ewald forces on several worker_threads over shared memory. Scheduling only: the numerics are the
- * engine's (ewald.ts), run in the same order of pieces as ewaldForces on one thread:
- *   setup (each worker, with the parameters the main thread chose) → partial structure factors over
- *   source ranges (summed here) → target/cell chunks handed out on demand → unsort + finalize here.
+ * Ewald forces on this thread and threads − 1 worker_threads over shared memory. Scheduling only: the
+ * numerics are the engine's (ewald.ts), run in the same pieces as ewaldForces on one thread:
+ *   setup (here, once; its arrays are shared with the workers, which ewaldThreadsWarm may have started
+ *   while the snapshot was read) → partial structure factors over source ranges (one per thread, summed
+ *   here, while the workers go on with real-space cells) → real-space cell chunks, then Fourier chunks,
+ *   taken from one queue by every thread → unsort + finalize here.
  */
 import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
 import { type Box } from '../../engine/box';
 import {
   type EwaldResult,
+  type EwaldSetup,
   type Progress,
+  ewaldAllRealChunk,
+  ewaldAllRealCollect,
+  ewaldCellCount,
+  ewaldFourierChunk,
+  ewaldStructureFactor,
+  ewaldTargetsChunk,
   ewaldFinalize,
+  ewaldForces,
   ewaldRefineWeak,
   ewaldSetup,
   ewaldTargetsValidate,
@@ -18,39 +28,145 @@ import {
   ewaldWeighStructureFactor,
 } from '../../engine/ewald/ewald';
 import type { EwaldOptions } from '../../engine/ewald/params';
-import { ewaldForces } from '../../engine/ewald/ewald';
+import { kernelTableSeed } from '../../engine/ewald/kernelTable';
+import { kernelModule } from '../../engine/wasm/module';
 import type { WorkerReply, WorkerRequest } from './parallelProtocol';
+import { PhaseClock, phaseLines, phaseTotals, threadTimes, timingEnabled } from './phaseTiming';
 
 /** Default thread count: all cores. */
 export function defaultThreads(): number {
   return Math.max(1, availableParallelism());
 }
 
-function shared(a: Float64Array | Int32Array): SharedArrayBuffer {
+/** Runs below this many particles stay on one thread. */
+const THREADED_MIN_PARTICLES = 2048;
+
+/** A copy of a typed array in shared memory (crosses to workers without copying). */
+function shared<T extends Float64Array | Int32Array>(a: T): T {
   const buf = new SharedArrayBuffer(a.byteLength);
-  new Uint8Array(buf).set(new Uint8Array(a.buffer, a.byteOffset, a.byteLength));
-  return buf;
+  const out = (a instanceof Float64Array ? new Float64Array(buf) : new Int32Array(buf)) as T;
+  out.set(a);
+  return out;
 }
 
+/** The setup with its arrays in shared memory and without this thread's WebAssembly contexts. */
+function setupShared(s: EwaldSetup): EwaldSetup {
+  const { cells, kernel, kspace } = s;
+  return {
+    ...s,
+    positions: shared(s.positions),
+    masses: shared(s.masses),
+    cells: { ...cells, xyzm: shared(cells.xyzm), order: shared(cells.order), slot: shared(cells.slot), start: shared(cells.start), stencil: shared(cells.stencil) },
+    kernel: { ...kernel, table: { ...kernel.table, coef: shared(kernel.table.coef) } },
+    kspace: {
+      ...kspace,
+      colHx: shared(kspace.colHx),
+      colHy: shared(kspace.colHy),
+      colHz0: shared(kspace.colHz0),
+      colHz1: shared(kspace.colHz1),
+      colK0: shared(kspace.colK0),
+      weight: shared(kspace.weight),
+    },
+    kWasm: undefined,
+    rWasm: undefined,
+    allSorted: undefined,
+  };
+}
+
+const WORKER_URL = new URL('./forceWorker.mjs', import.meta.url);
+/** Workers started ahead; tableReplyPending: the worker whose kernel-table reply has not come yet. */
+interface WarmPool {
+  url: string;
+  workers: Worker[];
+  tableReplyPending: Worker | null;
+  broken: boolean;
+}
+let warm: WarmPool | null = null;
+const TABLE_PREBUILD_U = 28;
+let warmClock: PhaseClock | null = null;
+
+/**
+ * Starts the threads − 1 workers of a coming ewaldForcesThreads call now (e.g. before the snapshot is read),
+ * so that their start-up overlaps the reading. Unused workers do not keep the process alive; a later
+ * call with another count or URL, or a run that stays on one thread, terminates them.
+ */
+export function ewaldThreadsWarm(threads: number, workerUrl: URL = WORKER_URL): void {
+  if (timingEnabled()) {
+    const [cpu, wait] = threadTimes();
+    process.stderr.write(phaseLines('main', [{ name: 'process-start→warm', wall: performance.now(), cpu, wait }]));
+    warmClock = new PhaseClock();
+    process.once('exit', () => {
+      const [c, w] = threadTimes();
+      process.stderr.write(phaseLines('main', [{ name: 'process total', wall: performance.now(), cpu: c, wait: w }]));
+    });
+  }
+  if (threads <= 1 || warm) return;
+  const workers = Array.from({ length: threads - 1 }, () => workerStart(workerUrl));
+  // The first worker builds the kernel table meanwhile (it depends on u = (α r_c)² only up to its
+  // length; TABLE_PREBUILD_U covers tol ≥ 1e-9 or so); its reply seeds this thread's table cache.
+  const record: WarmPool = { url: workerUrl.href, workers, tableReplyPending: workers[0], broken: false };
+  for (const w of workers) {
+    // A worker that fails or stops before it is used is replaced by a fresh one when the pool is made.
+    w.on('error', () => (record.broken = true));
+    w.on('exit', () => (record.broken = true));
+    w.unref();
+  }
+  workers[0].once('message', (r: WorkerReply) => {
+    record.tableReplyPending = null;
+    if (r.type === 'table') kernelTableSeed(r.coef);
+    if (timingEnabled()) process.stderr.write(`timing main kernel table from worker 0 at ${performance.now().toFixed(1)} ms\n`);
+  });
+  workers[0].postMessage({ type: 'table', uMax: TABLE_PREBUILD_U } satisfies WorkerRequest);
+  warm = record;
+}
+
+/**
+ * A worker sharing this thread's compiled WebAssembly kernels: one compilation, and code that one thread
+ * has optimised is optimised for all (this thread's weak-field refinement runs warm code).
+ */
+function workerStart(url: URL): Worker {
+  return new Worker(url, { workerData: { kernelModule: kernelModule() } });
+}
+
+function warmTake(count: number, url: URL): Pick<WarmPool, 'workers' | 'tableReplyPending'> {
+  const w = warm;
+  warm = null;
+  if (!w) return { workers: [], tableReplyPending: null };
+  if (w.url !== url.href || w.workers.length !== count || w.broken) {
+    for (const x of w.workers) void x.terminate();
+    return { workers: [], tableReplyPending: null };
+  }
+  return w;
+}
+
+/** Workers with a FIFO of pending replies each (a worker answers its messages in order). */
 class Pool {
   private workers: Worker[] = [];
-  private waiting: ((r: WorkerReply) => void)[] = [];
-  private failed: Error | null = null;
+  private pending: { resolve: (r: WorkerReply) => void; reject: (e: Error) => void }[][] = [];
 
   constructor(count: number, url: URL) {
+    const { workers: ready, tableReplyPending } = warmTake(count, url);
     for (let i = 0; i < count; i++) {
-      const w = new Worker(url);
-      const idx = i;
+      const w = ready[i] ?? workerStart(url);
+      w.ref();
+      const queue: (typeof this.pending)[number] = [];
+      // A table reply still to come is answered first (its own listener seeds the cache).
+      if (w === tableReplyPending) queue.push({ resolve: () => undefined, reject: () => undefined });
       w.on('message', (r: WorkerReply) => {
-        const cb = this.waiting[idx];
-        if (r.type === 'error') this.failed = new Error(r.message);
-        if (cb) cb(r);
+        const p = queue.shift();
+        if (!p) return;
+        if (r.type === 'error') p.reject(new Error(r.message));
+        else p.resolve(r);
       });
       w.on('error', (e) => {
-        this.failed = e instanceof Error ? e : new Error(String(e));
-        this.waiting[idx]?.({ type: 'error', message: this.failed.message });
+        const err = e instanceof Error ? e : new Error(String(e));
+        for (const p of queue.splice(0)) p.reject(err);
+      });
+      w.on('exit', (code) => {
+        for (const p of queue.splice(0)) p.reject(new Error(`force worker stopped (exit code ${code})`));
       });
       this.workers.push(w);
+      this.pending.push(queue);
     }
   }
 
@@ -60,39 +176,69 @@ class Pool {
 
   send(i: number, msg: WorkerRequest): Promise<WorkerReply> {
     return new Promise((resolve, reject) => {
-      this.waiting[i] = (r) => {
-        if (r.type === 'error') reject(new Error(r.message));
-        else resolve(r);
-      };
+      this.pending[i].push({ resolve, reject });
       this.workers[i].postMessage(msg);
     });
   }
 
-  /** Hands chunks [k·step, …) of [0, total) to whichever worker is free. */
-  async distribute(type: 'targets' | 'fourier' | 'cells', total: number, step: number, onChunk: (doneCount: number) => void): Promise<void> {
+  /**
+   * Hands the tasks out in order: two lanes per worker (so a worker always has its next task queued) and
+   * one lane in this thread, which runs its task with `local` and then yields to the event loop. `gate(task)`
+   * is awaited before a task is taken on (for tasks that need data still being prepared).
+   */
+  async distribute(
+    tasks: WorkerRequest[],
+    gate: (t: WorkerRequest) => Promise<void> | void,
+    local: (t: WorkerRequest) => void,
+    onDone: (t: WorkerRequest) => void,
+  ): Promise<void> {
     let next = 0;
-    let done = 0;
-    const loop = async (i: number) => {
-      while (next < total) {
-        const begin = next;
-        const end = Math.min(total, begin + step);
-        next = end;
-        await this.send(i, { type, begin, end });
-        done += end - begin;
-        onChunk(done);
+    let failed = false;
+    const guard = (lane: () => Promise<void>) =>
+      lane().catch((e) => {
+        failed = true; // the other lanes stop taking tasks
+        throw e;
+      });
+    const remote = async (i: number) => {
+      while (next < tasks.length && !failed) {
+        const task = tasks[next++];
+        await gate(task);
+        await this.send(i, task);
+        onDone(task);
       }
     };
-    await Promise.all(this.workers.map((_, i) => loop(i)));
+    const here = async () => {
+      while (next < tasks.length && !failed) {
+        const task = tasks[next++];
+        await gate(task);
+        local(task);
+        onDone(task);
+        await new Promise((r) => setImmediate(r)); // let replies in and hand out the next tasks
+      }
+    };
+    await Promise.all([guard(here), ...this.workers.flatMap((_, i) => [guard(() => remote(i)), guard(() => remote(i))])]);
   }
 
-  close(): Promise<unknown> {
-    return Promise.all(this.workers.map((w) => w.terminate()));
+  /** Stops the workers without waiting for their exit (nothing of theirs is needed any more). */
+  close(): void {
+    for (const w of this.workers) {
+      w.unref();
+      void w.terminate();
+    }
   }
+}
+
+/** Chunks [b, e) of [0, total) of about `step`, as tasks of the given type. */
+function chunks(type: 'cells' | 'fourier' | 'targets', total: number, step: number): WorkerRequest[] {
+  const out: WorkerRequest[] = [];
+  for (let b = 0; b < total; b += step) out.push({ type, begin: b, end: Math.min(total, b + step) });
+  return out;
 }
 
 /**
  * Accelerations (G·mass/length²) and potentials (zero-mean) for `targets` (input rows; null = all) on
- * `threads` worker threads; threads = 1 runs in this thread. Same results as ewaldForces up to rounding.
+ * `threads` threads: this one and threads − 1 workers (threads = 1, or fewer than 2048 particles: this
+ * thread alone, ewaldForces). Same results as ewaldForces up to rounding.
  * workerUrl: the compiled worker module (defaults to forceWorker.mjs beside this bundle).
  */
 export async function ewaldForcesThreads(
@@ -103,67 +249,100 @@ export async function ewaldForcesThreads(
   options: EwaldOptions,
   threads: number = defaultThreads(),
   onProgress?: Progress,
-  workerUrl: URL = new URL('./forceWorker.mjs', import.meta.url),
+  workerUrl: URL = WORKER_URL,
 ): Promise<EwaldResult> {
   const n = masses.length;
-  if (threads <= 1 || n < 2048) return ewaldForces(positions, masses, box, targets, options, onProgress);
+  if (threads <= 1 || n < THREADED_MIN_PARTICLES) {
+    warmTake(-1, workerUrl);
+    return ewaldForces(positions, masses, box, targets, options, onProgress);
+  }
   const tg = targets ?? Int32Array.from({ length: n }, (_, i) => i);
   ewaldTargetsValidate(tg, n);
   const all = tg.length === n && tg.every((v, i) => v === i);
-  // Workers start loading while the parameters are chosen here; they are pinned so that every worker
-  // builds the identical setup.
-  const pool = new Pool(threads, workerUrl);
-  let setup;
+  const clock = warmClock ?? new PhaseClock();
+  warmClock = null;
+  clock.mark('warm→threads (read, validate)');
+  // This thread computes too: threads − 1 workers.
+  const pool = new Pool(threads - 1, workerUrl);
+  let setup: EwaldSetup;
   try {
     setup = ewaldSetup(positions, masses, box, options, all ? n : tg.length);
   } catch (e) {
-    await pool.close();
+    pool.close();
     throw e;
   }
-  const p = setup.params;
-  const pinned: EwaldOptions = { ...options, alpha: p.alpha, rCut: p.rCut, kCut: p.kCut };
+  clock.mark('setup');
   const K = tg.length;
   const accBuf = new SharedArrayBuffer(8 * 3 * K);
   const phiBuf = new SharedArrayBuffer(8 * K);
   try {
-    const posBuf = shared(setup.positions);
-    const massBuf = shared(masses);
-    const tgBuf = shared(tg);
-    await Promise.all(
-      Array.from({ length: pool.size }, (_, i) =>
-        pool.send(i, { type: 'setup', positions: posBuf, masses: massBuf, box: [box.lx, box.ly, box.lz], options: pinned, targetCount: all ? n : K, targets: tgBuf, acc: accBuf, phi: phiBuf }),
-      ),
-    );
-    // Structure factor: one source range per worker, summed here.
-    const parts = await Promise.all(
-      Array.from({ length: pool.size }, (_, i) =>
-        pool.send(i, { type: 'structure', begin: Math.floor((i * n) / pool.size), end: Math.floor(((i + 1) * n) / pool.size) }),
-      ),
-    );
-    const s = new Float64Array(2 * setup.kspace.count);
-    for (const r of parts) if (r.type === 'structure') for (let k = 0; k < s.length; k++) s[k] += r.s[k];
-    const weighted = ewaldWeighStructureFactor(setup, s);
-    const wBuf = shared(weighted);
-    await Promise.all(Array.from({ length: pool.size }, (_, i) => pool.send(i, { type: 'weighted', weighted: wBuf })));
-    onProgress?.(0.2);
+    const plain = setupShared(setup);
+    const tgShared = shared(tg);
+    const ready = Array.from({ length: pool.size }, (_, i) => pool.send(i, { type: 'setup', setup: plain, targets: tgShared.buffer as SharedArrayBuffer, acc: accBuf, phi: phiBuf }));
+    // Structure factor: source range 0 here, range i + 1 on worker i; summed here while the workers go on.
+    const range = (r: number) => [Math.floor((r * n) / threads), Math.floor(((r + 1) * n) / threads)];
+    const parts = Array.from({ length: pool.size }, (_, i) => pool.send(i, { type: 'structure', begin: range(i + 1)[0], end: range(i + 1)[1] }));
+    clock.mark('share setup');
+    const sHere = ewaldStructureFactor(setup, range(0)[0], range(0)[1]);
+    clock.mark('structure (own part)');
+    let weightedHere: Float64Array | null = null;
+    const weightedReady = Promise.all(parts).then((replies) => {
+      const s = sHere;
+      for (const r of replies) if (r.type === 'structure') for (let k = 0; k < s.length; k++) s[k] += r.s[k];
+      const weighted = shared(ewaldWeighStructureFactor(setup, s));
+      weightedHere = weighted;
+      // Queued behind each worker's current tasks, so before any Fourier task it is given.
+      for (let i = 0; i < pool.size; i++) pool.send(i, { type: 'weighted', weighted: weighted.buffer as SharedArrayBuffer }).catch(() => undefined);
+      return weighted;
+    });
+    weightedReady.catch(() => undefined); // a failure surfaces where the Fourier tasks wait for it
+    const gate = (t: WorkerRequest) => (t.type === 'cells' ? undefined : weightedReady.then(() => undefined));
+    await Promise.all(ready);
     const acc = new Float64Array(accBuf);
     const phi = new Float64Array(phiBuf);
+    const local = (t: WorkerRequest) => {
+      if (t.type === 'cells') ewaldAllRealChunk(setup, t.begin, t.end);
+      else if (t.type === 'fourier') ewaldFourierChunk(setup, weightedHere!, tg, t.begin, t.end, acc, phi);
+      else if (t.type === 'targets') ewaldTargetsChunk(setup, weightedHere!, tg, t.begin, t.end, acc, phi);
+    };
     if (all) {
-      const nc = setup.cells.start.length - 1;
-      const cellStep = Math.max(1, Math.ceil(nc / (pool.size * 24)));
-      await pool.distribute('cells', nc, cellStep, (d) => onProgress?.(0.2 + (0.45 * d) / nc));
-      await pool.distribute('fourier', K, Math.max(64, Math.ceil(K / (pool.size * 24))), (d) => onProgress?.(0.65 + (0.35 * d) / K));
+      const nc = ewaldCellCount(setup);
+      const cellTasks = chunks('cells', nc, Math.max(1, Math.ceil(nc / (threads * 24))));
+      const fourierTasks = chunks('fourier', K, Math.max(64, Math.ceil(K / (threads * 24))));
+      let realDone = 0, fourierDone = 0;
+      await pool.distribute([...cellTasks, ...fourierTasks], gate, local, (t) => {
+        if (t.type === 'cells') realDone += t.end - t.begin;
+        else if (t.type === 'fourier') fourierDone += t.end - t.begin;
+        onProgress?.(0.6 * (realDone / nc) + 0.4 * (fourierDone / K));
+      });
+      clock.mark('real + fourier');
       const collected = await Promise.all(Array.from({ length: pool.size }, (_, i) => pool.send(i, { type: 'collect' })));
+      const own = ewaldAllRealCollect(setup);
+      ewaldUnsort(setup, own.accSorted, own.phiSorted, acc, phi);
       for (const r of collected) if (r.type === 'collected') ewaldUnsort(setup, r.accSorted, r.phiSorted, acc, phi);
+      clock.mark('collect');
     } else {
-      await pool.distribute('targets', K, Math.max(16, Math.ceil(K / (pool.size * 24))), (d) => onProgress?.(0.2 + (0.8 * d) / K));
+      let done = 0;
+      await pool.distribute(chunks('targets', K, Math.max(16, Math.ceil(K / (threads * 24)))), gate, local, (t) => {
+        if (t.type === 'targets') done += t.end - t.begin;
+        onProgress?.(done / K);
+      });
+      clock.mark('targets');
     }
-    const accOut = Float64Array.from(acc);
-    const phiOut = Float64Array.from(phi);
+    await weightedReady;
+    const accOut = new Float64Array(acc);
+    const phiOut = new Float64Array(phi);
     ewaldFinalize(setup, tg, accOut, phiOut);
+    clock.mark('finalize');
     const refined = ewaldRefineWeak(positions, masses, box, tg, accOut, phiOut, setup.params, options);
+    clock.mark(`refine (${refined})`);
+    if (clock.enabled) {
+      const timings = await Promise.all(Array.from({ length: pool.size }, (_, i) => pool.send(i, { type: 'timing' })));
+      timings.forEach((r, i) => r.type === 'timing' && process.stderr.write(phaseLines(`worker${i}`, phaseTotals(r.records))));
+      process.stderr.write(phaseLines('main', clock.records));
+    }
     return { targets: tg, acc: accOut, phi: phiOut, params: setup.params, wrapped: setup.wrapped, refined };
   } finally {
-    await pool.close();
+    pool.close();
   }
 }

@@ -1,14 +1,12 @@
 /** Messages between parallelEwald.ts and forceWorker.ts. */
-import type { EwaldOptions } from '../../engine/ewald/params';
+import type { EwaldSetup } from '../../engine/ewald/ewald';
+import type { PhaseRecord } from './phaseTiming';
 
 export type WorkerRequest =
   | {
       type: 'setup';
-      positions: SharedArrayBuffer;
-      masses: SharedArrayBuffer;
-      box: [number, number, number];
-      options: EwaldOptions;
-      targetCount: number;
+      /** The main thread's setup, without its WebAssembly contexts (structured copy). */
+      setup: EwaldSetup;
       targets: SharedArrayBuffer;
       acc: SharedArrayBuffer;
       phi: SharedArrayBuffer;
@@ -18,11 +16,16 @@ export type WorkerRequest =
   | { type: 'targets'; begin: number; end: number }
   | { type: 'fourier'; begin: number; end: number }
   | { type: 'cells'; begin: number; end: number }
-  | { type: 'collect' };
+  | { type: 'collect' }
+  /** Build the kernel table up to u = uMax and send its coefficients (done while the snapshot is read). */
+  | { type: 'table'; uMax: number }
+  | { type: 'timing' };
 
 export type WorkerReply =
   | { type: 'ready' }
   | { type: 'done' }
   | { type: 'structure'; s: Float64Array }
   | { type: 'collected'; accSorted: Float64Array; phiSorted: Float64Array }
+  | { type: 'timing'; records: PhaseRecord[] }
+  | { type: 'table'; coef: Float64Array }
   | { type: 'error'; message: string };

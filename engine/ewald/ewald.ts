@@ -70,31 +70,48 @@ export function particlesValidate(positions: Float64Array, masses: Float64Array)
 
 /**
  * Finds two particles at exactly the same (wrapped) position; returns their input rows (smaller first) or
- * null. Sorts each cell's slots by x, then compares neighbours in that order: O(N log N) overall.
+ * null. Per cell, the x coordinates are sorted (native typed-array sort); only a cell with a repeated x
+ * has its particles sorted by (x, y, z) and compared with their neighbours: O(N log N) overall.
  */
 export function cellListFindCoincident(cells: CellList): [number, number] | null {
   const { start, xyzm, order } = cells;
-  const idx: number[] = [];
+  let xs = new Float64Array(64);
   for (let c = 0; c + 1 < start.length; c++) {
     const a = start[c], b = start[c + 1];
     if (b - a < 2) continue;
-    idx.length = 0;
+    if (xs.length < b - a) xs = new Float64Array(2 * (b - a));
+    const v = xs.subarray(0, b - a);
+    for (let i = a; i < b; i++) v[i - a] = xyzm[4 * i];
+    v.sort();
+    let repeated = false;
+    for (let k = 1; k < v.length && !repeated; k++) repeated = v[k] === v[k - 1];
+    if (!repeated) continue;
+    // Sorted by (x, y, z), stable: equal positions end up adjacent, in input order.
+    const idx: number[] = [];
     for (let i = a; i < b; i++) idx.push(i);
     idx.sort((p, q) => xyzm[4 * p] - xyzm[4 * q] || xyzm[4 * p + 1] - xyzm[4 * q + 1] || xyzm[4 * p + 2] - xyzm[4 * q + 2]);
     for (let k = 1; k < idx.length; k++) {
       const p = idx[k - 1], q = idx[k];
       if (xyzm[4 * p] === xyzm[4 * q] && xyzm[4 * p + 1] === xyzm[4 * q + 1] && xyzm[4 * p + 2] === xyzm[4 * q + 2]) {
-        const u = order[p], v = order[q];
-        return u < v ? [u, v] : [v, u];
+        const u = order[p], w = order[q];
+        return u < w ? [u, w] : [w, u];
       }
     }
   }
   return null;
 }
 
+/** What an earlier setup of the same positions, masses and box established (validated, no coincident pair). */
+export interface EwaldChecked {
+  /** Its clustering factor (params.clustering). */
+  readonly clustering: number;
+}
+
 /**
  * Prepares a run: wraps positions (length units) into the box, chooses parameters for `targetCount`
  * targets, builds the cell list, kernel table and k-vectors. Masses may be signed (lattice-sum checks).
+ * `checked` (from an earlier setup of the same particles) skips the validation, the coincidence search
+ * and the clustering measurement.
  */
 export function ewaldSetup(
   positions: Float64Array,
@@ -102,15 +119,16 @@ export function ewaldSetup(
   box: Box,
   options: EwaldOptions = {},
   targetCount: number = masses.length,
+  checked?: EwaldChecked,
 ): EwaldSetup {
   boxMake(box.lx, box.ly, box.lz); // throws a RangeError naming a side that is not > 0
-  particlesValidate(positions, masses);
-  const wrappedPositions = Float64Array.from(positions);
+  if (!checked) particlesValidate(positions, masses);
+  const wrappedPositions = new Float64Array(positions);
   const wrapped = positionsWrap(wrappedPositions, box);
-  const chosen = ewaldParamsChoose(wrappedPositions, masses, box, options, targetCount);
+  const chosen = ewaldParamsChoose(wrappedPositions, masses, box, options, targetCount, checked?.clustering);
   const rLoop = Math.max(chosen.rCut, chosen.rSoft);
   const cells = cellListBuild(wrappedPositions, masses, box, chosen.cells, rLoop);
-  if (chosen.softening.kind === 'none') {
+  if (chosen.softening.kind === 'none' && !checked) {
     const pair = cellListFindCoincident(cells);
     if (pair) {
       throw new EngineInputError(
@@ -282,7 +300,7 @@ function isAll(targets: Int32Array, n: number): boolean {
 
 /**
  * Ewald accelerations and potentials on one thread for `targets` (input rows; null = all), then the
- * weak-field refinement (ewaldRefineWeak) unless `refine` is false.
+ * weak-field refinement (ewaldRefineWeak) unless `refine` is false; `checked`: see ewaldSetup.
  * Positions: flat xyz in length units; masses in mass units; results in units with the given G.
  */
 export function ewaldForces(
@@ -293,12 +311,13 @@ export function ewaldForces(
   options: EwaldOptions = {},
   onProgress?: Progress,
   refine = true,
+  checked?: EwaldChecked,
 ): EwaldResult {
   const n = masses.length;
   const tg = targets ?? Int32Array.from({ length: n }, (_, i) => i);
   ewaldTargetsValidate(tg, n);
   const all = isAll(tg, n);
-  const setup = ewaldSetup(positions, masses, box, options, all ? n : tg.length);
+  const setup = ewaldSetup(positions, masses, box, options, all ? n : tg.length, checked);
   const sf = new Float64Array(2 * setup.kspace.count);
   const sourceStep = Math.max(1024, Math.ceil(n / 8));
   for (let b = 0; b < n; b += sourceStep) {
@@ -365,7 +384,7 @@ export function ewaldRefineWeak(
   const tol = Math.max(1e-13, (params.tol * aMin) / scale);
   if (tol >= params.tol) return 0;
   const sub = Int32Array.from(weak, (t) => targets[t]);
-  const r = ewaldForces(positions, masses, box, sub, { ...options, tol }, undefined, false);
+  const r = ewaldForces(positions, masses, box, sub, { ...options, tol }, undefined, false, { clustering: params.clustering });
   weak.forEach((t, k) => {
     acc[3 * t] = r.acc[3 * k];
     acc[3 * t + 1] = r.acc[3 * k + 1];

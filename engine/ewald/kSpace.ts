@@ -204,22 +204,24 @@ export function kSpaceTargets(
       const hz0 = ks.colHz0[col];
       const hz1 = ks.colHz1[col] + Hz;
       let o = 2 * ks.colK0[col];
-      let im = 0, imz = 0, re = 0;
+      // e = c·z: sum w = z·conj(S) and hz·w over the column, then multiply by c once.
+      let s0r = 0, s0i = 0, s1r = 0, s1i = 0;
       let hzv = hz0;
       for (let hz = hz0 + Hz; hz <= hz1; hz++, o += 2, hzv++) {
         const zr = ez[2 * hz], zi = ez[2 * hz + 1];
-        const er = cr * zr - ci * zi, ei = cr * zi + ci * zr;
         const sr = ws[o], si = ws[o + 1];
-        // e · conj(S): re = er sr + ei si, im = ei sr − er si
-        const v = ei * sr - er * si;
-        im += v;
-        imz += hzv * v;
-        re += er * sr + ei * si;
+        const wr = zr * sr + zi * si, wi = zi * sr - zr * si;
+        s0r += wr;
+        s0i += wi;
+        s1r += hzv * wr;
+        s1i += hzv * wi;
       }
+      // Σ Im(e conj S) = Im(c s0), Σ hz Im(e conj S) = Im(c s1), Σ Re(e conj S) = Re(c s0)
+      const im = cr * s0i + ci * s0r;
       gx -= hx * im;
       gy -= hyRaw * im;
-      gz -= imz;
-      pot += re;
+      gz -= cr * s1i + ci * s1r;
+      pot += cr * s0r - ci * s0i;
     }
     acc[3 * t] += gx * ux;
     acc[3 * t + 1] += gy * uy;

@@ -40,10 +40,32 @@ function chebyshevMonomials(samples: number[]): number[] {
   return mono;
 }
 
+// The coefficients of an interval depend on the interval alone, so tables are cut from the longest one
+// built so far (per density); this saves rebuilding them for every run in one process.
+const built = new Map<number, Float64Array>();
+
+/**
+ * Hands this thread tables built elsewhere (another thread's kernelTableBuild(…).coef, same perUnit), so
+ * that later builds up to that length are cuts; a shorter one than already held is ignored.
+ */
+export function kernelTableSeed(coef: Float64Array, perUnit = 32): void {
+  const have = built.get(perUnit);
+  if (coef.length % KERNEL_STRIDE === 0 && (!have || have.length < coef.length)) built.set(perUnit, Float64Array.from(coef));
+}
+
 /** Builds the table on [0, uMax] with `perUnit` intervals per unit of u (default 32: error ≈ 1e-15). */
 export function kernelTableBuild(uMax: number, perUnit = 32): KernelTable {
   if (!(uMax > 0) || !Number.isFinite(uMax)) throw new RangeError(`kernel table: uMax must be positive, got ${uMax}`);
   const intervals = Math.max(1, Math.ceil(uMax * perUnit)) + 1; // one spare interval for u == uMax
+  const have = built.get(perUnit);
+  if (have && have.length >= intervals * KERNEL_STRIDE) return { uMax, perUnit, coef: have.slice(0, intervals * KERNEL_STRIDE) };
+  const coef = kernelTableCoefficients(intervals, perUnit);
+  built.set(perUnit, coef);
+  return { uMax, perUnit, coef: coef.slice() };
+}
+
+/** Interleaved monomial coefficients of the first `intervals` intervals at `perUnit` per unit of u. */
+function kernelTableCoefficients(intervals: number, perUnit: number): Float64Array {
   const coef = new Float64Array(intervals * KERNEL_STRIDE);
   const n = KERNEL_DEGREE + 1;
   const nodes = Array.from({ length: n }, (_, k) => Math.cos((Math.PI * (k + 0.5)) / n));
@@ -64,7 +86,7 @@ export function kernelTableBuild(uMax: number, perUnit = 32): KernelTable {
       coef[iv * KERNEL_STRIDE + n + m] = qm[m];
     }
   }
-  return { uMax, perUnit, coef };
+  return coef;
 }
 
 /** Evaluates forceP(u) from the table (reference path; hot loops inline the same arithmetic). */

@@ -167,6 +167,7 @@ export function cellGridChoose(box: Box, n: number, rLoop: number): { cells: [nu
  * Chooses α, r_c, k_c (and the Plummer radius) for positions already wrapped into the box, minimising a
  * cost model under the error budget; explicit overrides are kept and their errors reported.
  * targetCount: how many targets will be evaluated (all-particle runs use the symmetric pair loop).
+ * clusteringKnown: clusteringFactor(positions, box) when the caller has it already.
  */
 export function ewaldParamsChoose(
   positions: Float64Array,
@@ -174,6 +175,7 @@ export function ewaldParamsChoose(
   box: Box,
   options: EwaldOptions = {},
   targetCount: number = masses.length,
+  clusteringKnown?: number,
 ): EwaldParams {
   const G = options.G ?? 1;
   const tol = options.tol ?? 1e-6;
@@ -189,7 +191,7 @@ export function ewaldParamsChoose(
   let Q = 0;
   for (let i = 0; i < n; i++) Q += masses[i] * masses[i];
   if (Q === 0) Q = 1e-300;
-  const clustering = clusteringFactor(positions, box);
+  const clustering = clusteringKnown ?? clusteringFactor(positions, box);
   const scale = accelerationScale(G, masses, V);
   // Safety factor and the clustering margin c^{1/4} (see SAFETY and DEVELOPERS.md, "Error estimates").
   const budget = (tol * scale) / (SAFETY * Math.pow(clustering, 0.25));
@@ -200,8 +202,17 @@ export function ewaldParamsChoose(
   // direct interactions and point-mass periodic images does; the omitted tail is reported, not hidden.
   const rSoft = softening.kind === 'plummer' ? Math.min(...sides) / 2 : softeningSupport(softening);
 
-  const rFor = (alpha: number) => solveGaussianTail(G * Math.sqrt((Q * alpha) / V), eps) / alpha;
-  const kFor = (alpha: number) => 2 * alpha * solveGaussianTail(G * Math.sqrt((Q * alpha) / V), eps);
+  // Both estimates have the same shape: x = α r_c = k_c / 2α solves one equation per α (memoised).
+  let xAlpha = NaN, xValue = NaN;
+  const xFor = (alpha: number) => {
+    if (alpha !== xAlpha) {
+      xAlpha = alpha;
+      xValue = solveGaussianTail(G * Math.sqrt((Q * alpha) / V), eps);
+    }
+    return xValue;
+  };
+  const rFor = (alpha: number) => xFor(alpha) / alpha;
+  const kFor = (alpha: number) => 2 * alpha * xFor(alpha);
   const density = n / V;
   const symmetric = targetCount >= n;
   const cost = (alpha: number) => {

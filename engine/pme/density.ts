@@ -147,11 +147,11 @@ export function densityCoherent(stats: DensityStats, masses: Float64Array, coars
   const S = new Float64Array(cells), P = new Float64Array(cells), M = new Float64Array(cells);
   const rho32 = new Float64Array(cells), count = new Float64Array(cells);
   const sF = 3 * (MORTON_LEVELS - F), sC = 3 * (MORTON_LEVELS - C);
-  const { codes, order, n } = stats;
+  const { sorted, order, n } = stats;
   let prevFine = -1, mf = 0, sf = 0, cellOfRun = 0;
   for (let s = 0; s < n; s++) {
     const i = order[s];
-    const code = codes[i];
+    const code = sorted[s]; // = codes[order[s]], read in sequence
     const f = code >>> sF;
     if (f !== prevFine) {
       if (prevFine >= 0) P[cellOfRun] += mf * mf - sf;

@@ -19,7 +19,7 @@ import { kernelTableBuild } from '../ewald/kernelTable';
 import { type RealSpaceKernel, realSpaceAllSorted } from '../ewald/realSpace';
 import { type RealSpaceWasm, realSpaceWasmCreate } from '../wasm/realSpaceWasm';
 import { type CoherentDensity, type DensityStats, densityCellOf, densityFindCoincident, densityStats } from './density';
-import { errorModelFactor, errorModelFieldSample, errorModelSamples } from './errorModel';
+import { errorModelFactor, errorModelFieldSample, errorModelLevels, errorModelSamples } from './errorModel';
 import {
   type FftScratch,
   type MeshFft,
@@ -83,19 +83,41 @@ export function pmeSetup(positions: Float64Array, masses: Float64Array, box: Box
     }
   }
   // The error factor depends on the mesh spacing and cutoff it is measured for: start from typical values
-  // (h ≈ 0.7, r_c ≈ 3 mean spacings) and re-choose until the factor settles (at most three rounds).
+  // (h ≈ 0.7, r_c ≈ 3 mean spacings) and re-choose until the factor settles (at most three rounds). The
+  // factor that chooses is the larger of those for neighbourhoods of r_c and 2r_c (one density level
+  // coarser): on clustered data it jumps between levels, and a choice must not rest on the low side
+  // of a jump (our rule; the map for the predictions after the run stays that of r_c).
   const samples = errorModelSamples(density, masses, errorModelFieldSample(wrappedPositions, masses, box, opts.G), opts.G);
   const spacing = Math.cbrt(boxVolume(box) / Math.max(1, masses.length));
-  let model = errorModelFactor(density, masses, samples, opts.G, 0.7 * spacing, 3 * spacing);
+  const cache = new Map<string, ReturnType<typeof errorModelFactor>>();
+  const factorOf = (h: number, rCut: number) => {
+    const levels = errorModelLevels(box, h, rCut);
+    const key = `${levels.coarse},${levels.fine}`; // the factor depends on h and r_c through these only
+    let m = cache.get(key);
+    if (!m) cache.set(key, (m = errorModelFactor(density, masses, samples, opts.G, h, rCut)));
+    return m;
+  };
+  const factorAt = (h: number, rCut: number) => {
+    const m = factorOf(h, rCut);
+    return { map: m.map, factor: Math.max(m.factor, factorOf(h, 2 * rCut).factor) };
+  };
+  let model = factorAt(0.7 * spacing, 3 * spacing);
   let params = pmeParamsChoose(masses, box, density, opts, model.factor);
   for (let round = 0; ; round++) {
-    const next = errorModelFactor(density, masses, samples, opts.G, meshSpacing(box, params.mesh), params.rCut);
+    const next = factorAt(meshSpacing(box, params.mesh), params.rCut);
     const settled = Math.abs(Math.log(Math.max(1e-300, next.factor) / Math.max(1e-300, model.factor))) < 0.05;
     model = next; // now describes `params`
     if (settled || round === 2) break;
     params = pmeParamsChoose(masses, box, density, opts, model.factor);
   }
   return setupFromParams(wrappedPositions, masses, box, params, wrapped, { density, map: model.map });
+}
+
+/** Pieces of another setup with the same parameters that a pinned setup may reuse instead of rebuilding. */
+export interface PmeSetupShared {
+  readonly cells: CellList;
+  readonly influence: InfluenceTables;
+  readonly selfForce: SelfForceTables;
 }
 
 function setupFromParams(
@@ -105,11 +127,12 @@ function setupFromParams(
   params: PmeParams,
   wrapped: number,
   errors: PmeSetup['errors'],
+  reuse: PmeSetupShared | null = null,
 ): PmeSetup {
-  const cells = cellListBuild(wrappedPositions, masses, box, params.cells, Math.max(params.rCut, params.rSoft));
+  const cells = reuse?.cells ?? cellListBuild(wrappedPositions, masses, box, params.cells, Math.max(params.rCut, params.rSoft));
   const table = kernelTableBuild(params.alpha * params.alpha * params.rCut * params.rCut);
   const n = params.mesh;
-  const influence = influenceTables(n, box, params.alpha, params.order, params.influence);
+  const influence = reuse?.influence ?? influenceTables(n, box, params.alpha, params.order, params.influence);
   let totalMass = 0;
   for (let i = 0; i < masses.length; i++) totalMass += masses[i];
   return {
@@ -123,7 +146,7 @@ function setupFromParams(
     geometry: { n, inv: [n[0] / box.lx, n[1] / box.ly, n[2] / box.lz], p: params.order },
     fft: meshFftCreate(n),
     influence,
-    selfForce: selfForceTables(n, box, params.order, influence),
+    selfForce: reuse?.selfForce ?? selfForceTables(n, box, params.order, influence),
     errors,
     totalMass,
   };
@@ -132,12 +155,14 @@ function setupFromParams(
 /**
  * A setup with parameters chosen elsewhere (another thread's pmeSetup): positions must be that setup's
  * wrapped positions, so the cell list — and with it the sorted order of every chunk's sums — is the same.
- * Builds the cell list, kernel table, FFT plans, influence and self-force tables; no error model
+ * Builds the cell list, kernel table, FFT plans, influence and self-force tables — or takes the cell list
+ * and tables from `reuse` (that setup's own, e.g. copied into shared memory); no error model
  * (pmePredictedErrors needs the original setup).
  */
-export function pmeSetupPinned(wrappedPositions: Float64Array, masses: Float64Array, box: Box, params: PmeParams): PmeSetup {
+export function pmeSetupPinned(wrappedPositions: Float64Array, masses: Float64Array, box: Box, params: PmeParams, reuse: PmeSetupShared | null = null): PmeSetup {
   particlesValidate(wrappedPositions, masses);
-  return setupFromParams(wrappedPositions, masses, box, params, 0, null);
+  if (reuse && reuse.cells.order.length !== masses.length) throw new RangeError(`pmeSetupPinned: the shared cell list holds ${reuse.cells.order.length} particles, not ${masses.length}`);
+  return setupFromParams(wrappedPositions, masses, box, params, 0, null, reuse);
 }
 
 /** Numbers in a mesh buffer: (n0 + 2)·n1·n2 (the real mesh, then room for the half spectrum). */

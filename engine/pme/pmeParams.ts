@@ -15,7 +15,7 @@ import { type Box, boxSides, boxVolume } from '../box';
 import { cellStencil } from '../ewald/cellList';
 import { type Softening, NO_SOFTENING, softeningSupport, softeningValidate } from '../softening';
 import { BSPLINE_ORDER_MAX, BSPLINE_ORDER_MIN } from './bspline';
-import { type DensityStats, densityCellSquares, densityPairEstimate } from './density';
+import { type DensityStats, densityPairEstimate } from './density';
 import { fftSizeNext, fftSizeOk } from './fftRows';
 import { type InfluenceKind } from './influence';
 import { meshErrorFunctional, plummerErrorFunctional, realErrorFunctional } from './meshError';
@@ -37,7 +37,7 @@ export interface PmeOptions {
   readonly influence?: InfluenceKind;
   /** Softening kernel (default none). */
   readonly softening?: Softening;
-  /** Largest mesh (points) the automatic choice may use (default 2^26: 0.5 GB of mesh). */
+  /** Largest mesh (points) the automatic choice may use (default 2^26: 0.5 GB of mesh; the CLI allows 10^8). */
   readonly maxMeshPoints?: number;
 }
 
@@ -71,22 +71,28 @@ export interface PmeParams {
   readonly pairEstimate: number;
 }
 
-// Cost model (ns, one thread; measured on the project machine with scripts/bench/pmeBench.ts and the
-// phase timings there). Real space, symmetric WebAssembly loop over the cell list: per visit of a
-// particle to a half-stencil cell, per candidate (pairs in visited cells), per pair inside the cutoff.
-const COST_VISIT = 20;
-const COST_CANDIDATE = 0.6;
-const COST_PAIR = 15;
-const COST_SPREAD = 2.0; // per particle · p³ (assignment)
-const COST_INTERP = 3.0; // per particle · p³ (interpolation with gradient)
+// Cost model (ns, one thread; CPU time measured on the project machine with scripts/bench/pmeBench.ts
+// and the phase timings there). Real space, symmetric WebAssembly loop over the cell list with
+// per-particle pruning of neighbour cells: per visit of a particle to a half-stencil cell, per cell, and
+// per pair inside the cutoff times (1 + w/2r)³ (the candidates left after pruning: the sphere dilated by
+// about half a cell; w the largest cell side). Least-squares fit to the real-space CPU time of uniform
+// and clumped snapshots (N = 2^15 … 2^18, 1 … 3 cells per cutoff; 10^6 clumped checked: 2 cells per
+// cutoff 13.1 s against 17.6 s for 1).
+const COST_VISIT = 32;
+const COST_CANDIDATE_PAIR = 7;
+const COST_CELL = 145;
+const COST_SPREAD = 4.0; // per particle · p³ (assignment)
+const COST_INTERP = 5.0; // per particle · p³ (interpolation with gradient)
 const COST_MESH_PARTICLE = 150; // per particle: B-spline weights and indices, both passes
-const COST_FFT = 3.5; // per mesh point · log₂(points), forward + inverse
+const COST_FFT = 2.5; // per mesh point · log₂(points), forward + inverse
 const COST_MESH_POINT = 30; // per mesh point: first touch of fresh memory, zeroing
 const COST_PARTICLE = 400; // per particle: wrap, statistics, cell list, sort, unsort, fresh arrays
 // ε_predicted ≤ tol / SAFETY (margin for the sampling noise of an rms over heavy-tailed 1/|a|²).
 const SAFETY = 1.5;
 const ORDERS_AUTO = [4, 5, 6, 7, 8];
 const FINAL_SAMPLES = 16;
+/** θ samples per half axis of the mesh functional inside the α refinement (the final value uses FINAL_SAMPLES). */
+const SEARCH_SAMPLES = 8;
 // Table of the mesh functional for cubic cells of unit side, Q₁(x) at x = αh on a log grid; a mesh of
 // spacing h has Q = Q₁(αh)/h (dimensional scaling). Rectangular cells use the largest side (an upper
 // bound, since refining any axis lowers the error); the chosen mesh is then evaluated exactly.
@@ -181,16 +187,48 @@ export function realSpaceCost(stats: DensityStats, r: number): { cost: number; c
   for (let perCut = 1; perCut <= 4; perCut++) {
     const cells = sides.map((l) => Math.max(1, Math.min(1024, Math.floor((l * perCut) / r)))) as [number, number, number];
     const nCells = cells[0] * cells[1] * cells[2];
-    if (nCells > Math.max(64, 4 * stats.n) && perCut > 1) continue;
+    if (nCells > Math.max(64, 8 * stats.n) && perCut > 1) continue;
     const w = sides.map((l, d) => l / cells[d]) as [number, number, number];
     const stencil = stencilSize(w, r);
     const half = (stencil + 1) / 2;
-    const squares = densityCellSquares(stats, w[0] * w[1] * w[2]);
-    const cost = stats.n * half * COST_VISIT + half * squares * COST_CANDIDATE + pairs * COST_PAIR + nCells * 4;
+    const dilation = (1 + Math.max(...w) / (2 * r)) ** 3;
+    const cost = stats.n * half * COST_VISIT + pairs * dilation * COST_CANDIDATE_PAIR + nCells * COST_CELL;
     if (!best || cost < best.cost) best = { cost, cells, stencil };
   }
   return best!;
 }
+
+/**
+ * The α between the grid values next to `alpha` (a factor 2^{±1/8}) with the smallest real-space cutoff
+ * for this mesh: r_c(α) solved against the rest of the budget after the mesh functional (evaluated, not
+ * tabulated), which falls with α while the mesh error is small and rises steeply once it takes most of
+ * the budget; golden-section search (the cost only grows with r_c on a fixed mesh).
+ */
+function alphaRefine(mesh: [number, number, number], box: Box, alpha: number, p: number, kind: InfluenceKind, budget: number): number {
+  const cut = (a: number) => {
+    const q = meshErrorFunctional(mesh, box, a, p, kind, SEARCH_SAMPLES);
+    return q < 0.98 * budget ? realCutoffFor(a, budget - q) : Infinity;
+  };
+  const step = Math.pow(2, 1 / TABLE_STEPS_PER_OCTAVE);
+  const g = (Math.sqrt(5) - 1) / 2;
+  let lo = alpha / step, hi = alpha * step;
+  let x1 = hi - g * (hi - lo), x2 = lo + g * (hi - lo);
+  let f1 = cut(x1), f2 = cut(x2);
+  for (let it = 0; it < 10; it++) { // bracket 0.618^10 ≈ 1/120 of 2^{1/4}: α to 0.2 %
+    if (f1 <= f2) {
+      hi = x2; x2 = x1; f2 = f1;
+      x1 = hi - g * (hi - lo); f1 = cut(x1);
+    } else {
+      lo = x1; x1 = x2; f1 = f2;
+      x2 = lo + g * (hi - lo); f2 = cut(x2);
+    }
+  }
+  const best = f1 <= f2 ? x1 : x2;
+  return Math.min(f1, f2) <= cut(alpha) ? best : alpha;
+}
+
+/** Default largest automatic mesh (points). */
+export const PME_MAX_MESH_DEFAULT = 2 ** 26;
 
 interface Candidate {
   alpha: number;
@@ -230,7 +268,7 @@ export function pmeOptionsResolve(options: PmeOptions = {}): PmeResolvedOptions 
   if (order !== undefined && !(Number.isInteger(order) && order >= BSPLINE_ORDER_MIN && order <= BSPLINE_ORDER_MAX)) {
     throw new RangeError(`order must be an integer from ${BSPLINE_ORDER_MIN} to ${BSPLINE_ORDER_MAX}, got ${order}`);
   }
-  const maxMesh = options.maxMeshPoints ?? 2 ** 26;
+  const maxMesh = options.maxMeshPoints ?? PME_MAX_MESH_DEFAULT;
   if (!(maxMesh >= 8) || !Number.isFinite(maxMesh)) throw new RangeError(`maxMeshPoints must be a finite number ≥ 8, got ${maxMesh}`);
   const fixedMesh = options.mesh !== undefined ? meshFromOption(options.mesh) : null;
   if (fixedMesh && order !== undefined && fixedMesh.some((v) => v < order)) {
@@ -335,8 +373,16 @@ export function pmeParamsChoose(masses: Float64Array, box: Box, stats: DensitySt
       if (pick.best && meshCost(n, p, mesh) > pick.best.cost) break;
     }
   }
-  const chosen = pick.best ?? pick.fallback;
+  let chosen = pick.best ?? pick.fallback;
   if (!chosen) throw new RangeError('no usable mesh: maxMeshPoints is too small for the B-spline order');
+  if (pick.best && !options.alpha && !options.rCut) {
+    const alpha = alphaRefine(chosen.mesh, box, chosen.alpha, chosen.order, influence, budget);
+    // Kept only where it saves real-space work (with few pairs every α costs the same: keep the grid value).
+    const q = meshErrorFunctional(chosen.mesh, box, alpha, chosen.order, influence, FINAL_SAMPLES);
+    if (q < 0.98 * budget && pairCost(Math.max(realCutoffFor(alpha, budget - q), rSoft)) < 0.99 * pairCost(Math.max(chosen.rCut, rSoft))) {
+      chosen = { ...chosen, alpha };
+    }
+  }
   // Final, finer evaluation of the mesh functional; the cutoff is re-solved against it.
   const qMesh = meshErrorFunctional(chosen.mesh, box, chosen.alpha, chosen.order, influence, FINAL_SAMPLES);
   let rCut = chosen.rCut;

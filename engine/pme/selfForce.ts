@@ -51,20 +51,28 @@ export function selfForceTables(n: [number, number, number], box: Box, p: number
   const R = [new Float64Array(len[0]), new Float64Array(len[1]), new Float64Array(len[2])];
   const [a0, a1, a2] = tab.a;
   const [t0, t1, t2] = tab.t;
+  // Axes 1 and 2 hold all signed modes, and every table is even in the mode (a function of θ²): sum over
+  // i ≤ n/2 with multiplicity 2 for the modes that have a mirror image n − i, then copy to the mirrors.
+  const half1 = Math.floor(n[1] / 2), half2 = Math.floor(n[2] / 2);
+  const mult = (i: number, nd: number) => (i === 0 || 2 * i === nd ? 1 : 2);
   for (let i0 = 0; i0 < len[0]; i0++) {
-    for (let i1 = 0; i1 < len[1]; i1++) {
+    for (let i1 = 0; i1 <= half1; i1++) {
+      const m1 = mult(i1, n[1]);
       const c01 = tab.scale * a0[i0] * a1[i1];
       const t01 = t0[i0] + t1[i1];
-      for (let i2 = 0; i2 < len[2]; i2++) {
+      for (let i2 = 0; i2 <= half2; i2++) {
         const den = t01 + t2[i2];
         if (!(den > 0)) continue;
+        const m2 = mult(i2, n[2]);
         const g = (c01 * a2[i2]) / den;
-        R[0][i0] += g * S[1][i1] * S[2][i2];
-        R[1][i1] += w0[i0] * g * S[0][i0] * S[2][i2];
-        R[2][i2] += w0[i0] * g * S[0][i0] * S[1][i1];
+        R[0][i0] += m1 * m2 * g * S[1][i1] * S[2][i2];
+        R[1][i1] += m2 * w0[i0] * g * S[0][i0] * S[2][i2];
+        R[2][i2] += m1 * w0[i0] * g * S[0][i0] * S[1][i1];
       }
     }
   }
+  for (let i1 = half1 + 1; i1 < n[1]; i1++) R[1][i1] = R[1][n[1] - i1];
+  for (let i2 = half2 + 1; i2 < n[2]; i2++) R[2][i2] = R[2][n[2] - i2];
   const v = new Float64Array(p), dv = new Float64Array(p);
   const f = [0, 1, 2].map((d) => {
     const h = sides[d] / n[d];

@@ -35,7 +35,8 @@ export function kSpaceWasmCreate(ks: KSpace, box: Box, positions: Float64Array, 
   });
   const pSr = arena.alloc(8 * nk + 16);
   const pSi = arena.alloc(8 * nk + 16);
-  const scratch = arena.alloc(8 * 2 * (Hx + 3 + 2 * Hy + 3 + 2 * Hz + 3) + 64);
+  // Phase tables of two particles (the structure factor takes particles in pairs).
+  const scratch = arena.alloc(2 * (16 * (Hx + 3 + 2 * Hy + 3 + 2 * Hz + 3) + 16) + 64);
   arena.f64(pPos, 3 * n).set(positions);
   arena.f64(pMass, n).set(masses);
   const tx = (2 * Math.PI) / box.lx, ty = (2 * Math.PI) / box.ly, tz = (2 * Math.PI) / box.lz;

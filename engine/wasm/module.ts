@@ -38,6 +38,14 @@ export function kernelModule(): WebAssembly.Module | null {
   return cached;
 }
 
+/**
+ * Uses an already compiled kernel module (e.g. the main thread's, sent to a worker): threads that share
+ * one module share its compiled code, including the optimised tier. Ignored where the kernels are off.
+ */
+export function kernelModuleShare(mod: WebAssembly.Module | null): void {
+  if (!disabled() && mod) cached = mod;
+}
+
 /** A fresh instance (own linear memory) of the kernels, or null. */
 export function kernelInstance(): KernelExports | null {
   const mod = kernelModule();

@@ -5,6 +5,7 @@
  */
 import { type Box } from '../box';
 import { type CellList } from '../ewald/cellList';
+import { KERNEL_STRIDE } from '../ewald/kernelTable';
 import { type RealSpaceKernel } from '../ewald/realSpace';
 import { WasmArena, kernelInstance } from './module';
 
@@ -41,8 +42,16 @@ export function realSpaceWasmCreate(cells: CellList, box: Box, k: RealSpaceKerne
   arena.i32(pStart, nCells + 1).set(cells.start);
   const pStencil = arena.alloc(4 * cells.stencil.length);
   arena.i32(pStencil, cells.stencil.length).set(cells.stencil);
+  // Table re-laid for the kernel: per interval (P0, Q0, P1, Q1, …) instead of (P0..P5, Q0..Q5).
   const pTable = arena.alloc(8 * k.table.coef.length);
-  arena.f64(pTable, k.table.coef.length).set(k.table.coef);
+  const tab = arena.f64(pTable, k.table.coef.length);
+  const half = KERNEL_STRIDE / 2;
+  for (let o = 0; o < tab.length; o += KERNEL_STRIDE) {
+    for (let m = 0; m < half; m++) {
+      tab[o + 2 * m] = k.table.coef[o + m];
+      tab[o + 2 * m + 1] = k.table.coef[o + half + m];
+    }
+  }
   const softLen = k.softening.kind === 'plummer' ? k.softening.eps : k.softening.kind === 'spline' ? k.softening.h : 0;
   const setKernel = () =>
     x.setKernel(k.alpha, k.rCut, k.rSoft, k.table.perUnit, k.table.uMax, pTable, SOFT_KIND[k.softening.kind], softLen);

@@ -3,7 +3,11 @@
  * Figures: wall seconds of ewaldForces on one thread and ewaldForcesThreads on all cores, real-space pair
  * terms per second, k-vectors, the chosen parameters; plus the tol 1e-10 accuracy check.
  */
-import { availableParallelism } from 'node:os';
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { availableParallelism, loadavg, tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { ewaldForcesThreads } from '../../app/cli/parallelEwald';
 import { boxMake, type Box } from '../../engine/box';
 import { demoSnapshot } from '../../engine/demo/demoSnapshot';
@@ -109,5 +113,39 @@ async function accuracy(): Promise<void> {
   });
 }
 
+/**
+ * The whole `torusgrav forces` command (start, read CSV, compute, write), N = 16384, tol 1e-6, all
+ * targets: best wall seconds of 3 runs per thread count, with the 1-minute load average beside it
+ * (the machine may be shared).
+ */
+function commandTimes(): void {
+  const cli = fileURLToPath(new URL('torusgrav.mjs', workerUrl));
+  const dir = mkdtempSync(join(tmpdir(), 'torusgrav-bench-'));
+  try {
+    for (const n of quick ? [4096] : [16384, 65536]) {
+      for (const kind of ['uniform', 'clumped'] as const) {
+        const positions = kind === 'uniform' ? uniform(n, 11) : demoSnapshot(n, 1).positions;
+        const rows = ['x,y,z,m'];
+        for (let i = 0; i < n; i++) rows.push(`${positions[3 * i]},${positions[3 * i + 1]},${positions[3 * i + 2]},${1 / n}`);
+        const file = join(dir, `${kind}-${n}.csv`);
+        writeFileSync(file, rows.join('\n') + '\n');
+        for (const threads of [1, 2]) {
+          let best = Infinity;
+          for (let r = 0; r < 3; r++) {
+            const t0 = performance.now();
+            const run = spawnSync(process.execPath, [cli, 'forces', file, '--box', '1', '--tol', '1e-6', '--threads', String(threads), '--out', join(dir, 'out.csv')]);
+            if (run.status !== 0) throw new Error(`forces command failed: ${run.stderr}`);
+            best = Math.min(best, (performance.now() - t0) / 1000);
+          }
+          emit({ bench: 'forces-command', n, snapshot: kind, tol: 1e-6, targets: 'all', threads, secondsWallBestOf3: +best.toFixed(3), loadAverage1min: +loadavg()[0].toFixed(2) });
+        }
+      }
+    }
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
 await speed();
 await accuracy();
+commandTimes();

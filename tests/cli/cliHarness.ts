@@ -11,7 +11,7 @@ import { fileURLToPath } from 'node:url';
 
 export const ROOT = fileURLToPath(new URL('../..', import.meta.url)).replace(/\/$/, '');
 export const BIN = join(ROOT, 'bin', 'torusgrav.mjs');
-const OUTPUTS = ['torusgrav.mjs', 'forceWorker.mjs'].map((f) => join(ROOT, 'dist-cli', f));
+const OUTPUTS = ['torusgrav.mjs', 'forceWorker.mjs', 'pmeWorker.mjs'].map((f) => join(ROOT, 'dist-cli', f));
 
 function newestSource(dir: string): number {
   let t = 0;

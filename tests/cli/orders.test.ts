@@ -188,10 +188,10 @@ describe('bad input: exit 2, one line, nothing written', () => {
     { what: 'forces direct, shells 0', args: direct('--order', 'sphere', '--shells', '0'), says: ['--shells', 'got 0'] },
     { what: 'forces direct, absurd shells', args: direct('--order', 'sphere', '--shells', '4000'), says: ['on one core', '--max-work N'] },
     { what: 'forces direct, λ ≤ 0', args: direct('--order', 'screened', '--lambdas', '0,1'), says: ['--lambdas', 'must be > 0'] },
-    { what: 'forces direct with Ewald-only options', args: direct('--order', 'cube', '--softening', 'plummer:0.01', '--threads', '2'), says: ['--softening, --threads', 'apply to --method ewald only'] },
+    { what: 'forces direct with Ewald-only options', args: direct('--order', 'cube', '--softening', 'plummer:0.01', '--threads', '2'), says: ['--softening, --threads', 'apply to --method ewald and pme only'] },
     { what: 'forces direct, engine --tol out of range', args: direct('--order', 'cube', '--shells', '1', '--tol', '0.5'), says: ['--tol must lie in [1e-14, 1e-2]'] },
     { what: 'order options with the Ewald method', args: ['forces', 'IN', '--box', '1', '--order', 'sphere', '--shells', '3', '--out', 'OUT'], says: ['--order, --shells', 'apply to --method direct only'] },
-    { what: 'an unknown method', args: ['forces', 'IN', '--box', '1', '--method', 'fast', '--out', 'OUT'], says: ['--method must be ewald or direct', '"fast"'] },
+    { what: 'an unknown method', args: ['forces', 'IN', '--box', '1', '--method', 'fast', '--out', 'OUT'], says: ['--method must be ewald, direct or pme', '"fast"'] },
   ];
   for (const c of CASES) {
     it(c.what, () => {

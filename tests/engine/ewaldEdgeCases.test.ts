@@ -66,6 +66,20 @@ describeKernelPaths('ewaldForces with coincident particles', () => {
     expect(err.message).toMatch(/particles 0 and 1/);
   });
 
+  it('without softening: three at one place and a fourth sharing only x and y: the two lowest rows of the three are named', () => {
+    const p = Float64Array.from(s.positions);
+    for (const i of [8, 5, 2]) p.set([0.25, 0.5, 0.125], 3 * i);
+    p.set([0.25, 0.5, 0.375], 3 * 1); // same x and y as the three, another z: not coincident
+    const err = thrown(() => ewaldForces(p, s.masses, s.box, null, {}));
+    expect(err).toBeInstanceOf(EngineInputError);
+    expect(err.message).toMatch(/particles 2 and 5/);
+    // and equal x alone is no error
+    const q = Float64Array.from(s.positions);
+    q.set([0.25, 0.5, 0.125], 3 * 2);
+    q.set([0.25, 0.5, 0.375], 3 * 1);
+    expect(() => ewaldForces(q, s.masses, s.box, null, { tol: 1e-4 })).not.toThrow();
+  });
+
   it('with spline or Plummer softening: finite accelerations and potentials, no mutual force between the pair', () => {
     for (const softening of [{ kind: 'spline', h: 0.05 }, { kind: 'plummer', eps: 0.05 }] as const) {
       const r = ewaldForces(pos, s.masses, s.box, null, { tol: 1e-4, softening });

@@ -33,6 +33,23 @@ describe('kernelTableBuild(uMax)', () => {
     expect(worstPsi).toBeLessThan(1e-14);
   });
 
+  it('tables cut from a longer one built before (per process) hold exactly the requested intervals and the same accuracy', () => {
+    const small = kernelTableBuild(3.1);
+    const long = kernelTableBuild(60);
+    const again = kernelTableBuild(3.1);
+    expect(again.uMax).toBe(3.1);
+    expect(again.coef.length).toBe((Math.ceil(3.1 * 32) + 1) * 12);
+    expect(again.coef).toEqual(small.coef);
+    expect(long.coef.subarray(0, small.coef.length)).toEqual(small.coef);
+    again.coef[0] = NaN; // a caller's copy: changing it leaves later tables alone
+    expect(kernelTableBuild(3.1).coef[0]).toBe(small.coef[0]);
+    for (let i = 0; i <= 600; i++) {
+      const u = (60 * i) / 600 * (1 - 1e-12);
+      expect(Math.abs(kernelTableForceP(long, u) - ewaldForceP(u))).toBeLessThan(2e-15);
+      expect(Math.abs(kernelTablePotQ(long, u) - ewaldPotQ(u))).toBeLessThan(2e-15);
+    }
+  });
+
   it('covers u = uMax itself and rejects uMax ≤ 0 or non-finite with a RangeError naming uMax', () => {
     const table = kernelTableBuild(7.3);
     expect(Math.abs(kernelTableForceP(table, 7.3) - ewaldForceP(7.3))).toBeLessThan(2e-15);

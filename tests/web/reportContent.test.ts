@@ -5,6 +5,8 @@
  * for bit). The SHA-256 is checked against node:crypto (an independent implementation).
  */
 import { createHash } from 'node:crypto';
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { boxMake } from '../../engine/box';
 import { meshForces } from '../../engine/codeUnderTest/meshForces';
@@ -13,7 +15,12 @@ import { ewaldForces } from '../../engine/ewald/ewald';
 import { errorReport } from '../../engine/stats/errorReport';
 import { errorSummary, percentileLinear, relativeErrors, sortedFinite } from '../../engine/stats';
 import { sha256Hex, snapshotDigest } from '../../app/web/report/fileDigest';
-import { type ReportInput, paramsText, reportContent, reportResidualsCsv, reportSummary } from '../../app/web/report/reportContent';
+import { type ReportInput, methodRecord, methodText, paramsText, reportContent, reportResidualsCsv, reportSummary } from '../../app/web/report/reportContent';
+import { imageSumOrder } from '../../engine/orders/imageSumOrder';
+import { orderRun, pmeRun } from '../../app/web/worker/methodRequests';
+import { methodRunFrom } from '../../app/web/state/orderRuns';
+import type { SlotPlan } from '../../app/web/state/runPlan';
+import type { MethodId } from '../../app/web/methods/registry';
 import { formatNumber } from '../../app/web/format';
 import { type AppState, appStateInitial } from '../../app/web/state/store';
 import type { Comparison, MethodRun, Snapshot } from '../../app/web/state/types';
@@ -205,5 +212,155 @@ describe('sha256Hex / snapshotDigest', () => {
     const f = await snapshotDigest({ ...snapshot, kind: 'file', fileName: 'never-dropped.csv' } as Snapshot);
     expect(f.sha256).toBeNull();
     expect(f.of).toMatch(/not at hand/);
+  });
+});
+
+// ---- image-sum orders and particle-mesh Ewald ---------------------------------------------------------
+// Runs made as the page makes them: the worker's request functions (engine calls) and methodRunFrom.
+
+const NO = 200;
+const G2 = 2; // the runs' own G, unlike the page's draft G (1): the header must take the runs'
+
+function orderSnapshot(): Snapshot {
+  const d = demoSnapshot(NO, 11);
+  return { ...snapshot, id: `demo:${NO}:11`, seed: 11, n: NO, positions: d.positions, masses: d.masses, ids: null, source: 'demo' } as Snapshot;
+}
+
+function slot(method: MethodId, label: string): SlotPlan {
+  return { key: `${method}|${label}`, method, label } as SlotPlan;
+}
+
+function comparisonOf(snap: Snapshot, runA: MethodRun, runB: MethodRun): AppState {
+  const rep = errorReport(runA.acc, runB.acc, 20);
+  const indices = Int32Array.from({ length: snap.n }, (_, i) => i);
+  const cmp: Comparison = {
+    snapshotId: snap.id,
+    runA,
+    runB,
+    targets: { key: 'all', all: true, indices },
+    relative: rep.relative,
+    summary: rep.summary,
+    histogram: rep.histogram,
+    cdf: rep.cdf,
+    neighbours: null,
+    wallMs: 10,
+    workerMs: 5,
+  };
+  return { ...appStateInitial(), snapshot: snap, comparison: cmp };
+}
+
+describe('the report of an image-sum order against particle-mesh Ewald', () => {
+  let snap: Snapshot;
+  let orderRunA: MethodRun;
+  let pmeRunB: MethodRun;
+  let st: AppState;
+  const progress = () => {};
+
+  beforeAll(() => {
+    snap = orderSnapshot();
+    const base = { positions: snap.positions, masses: snap.masses, box: snap.box, targets: null };
+    const o = orderRun({ type: 'order', ...base, options: { order: 'sphere', shells: 4, background: true, G: G2, tol: 1e-8 } }, progress);
+    orderRunA = methodRunFrom(slot('sphere', 'sphere R 4'), 'all', o, 1);
+    const p = pmeRun({ type: 'pme', ...base, options: { G: G2, tol: 1e-3 } }, progress);
+    pmeRunB = methodRunFrom(slot('pme', 'PME tol 1e-3'), 'all', p, 1);
+    st = comparisonOf(snap, orderRunA, pmeRunB);
+  });
+
+  const inp = (): ReportInput => ({ ...input(), state: st });
+
+  it('header: the order with shells, mean density, exact-part tolerance and what it chose, work and predicted limit', () => {
+    const p = orderRunA.order!;
+    const h = Object.fromEntries(reportContent(inp()).header);
+    const a = h['A (compared)'];
+    expect(a.startsWith('sphere R 4: spherical shells |s| ≤ R·L_max for R = 0 … 4, mean density removed')).toBe(true);
+    expect(a).toContain('exact parts to tolerance 1e-8');
+    for (const k of ['nearRadius', 'maxOrder', 'nearCells', 'farCells'] as const) expect(p[k]).toBeDefined();
+    expect(a).toContain(`cells within ${formatNumber(p.nearRadius!)} (length)`);
+    expect(a).toContain(`multipoles to order ${p.maxOrder}`);
+    expect(a).toContain(`work ${formatNumber(p.work, 3)} pair terms`);
+    expect(a).toContain('predicted limit: Ewald + G N·D/V with N (4π/3) I (sphere)');
+    expect(a).toContain('truncation at R = 4 is not estimated');
+    expect(a.endsWith('G = 2')).toBe(true);
+    expect(h['units and G']).toMatch(/^G = 2;/);
+  });
+
+  it("the order's predicted shift G N·D/V: (4π/3) G D/V for a sphere (de Leeuw, Perram & Smith 1980), and the engine's limit − Ewald", () => {
+    const rec = methodRecord(orderRunA, snap) as Record<string, any>;
+    const lim = rec.predictedLimit;
+    // independent: the box's mass dipole about its centre from the wrapped positions, unit box (V = 1)
+    const D = [0, 0, 0];
+    for (let j = 0; j < NO; j++) for (let d = 0; d < 3; d++) D[d] += snap.masses[j] * ((((snap.positions[3 * j + d] % 1) + 1) % 1) - 0.5);
+    for (let d = 0; d < 3; d++) {
+      expect(lim.dipole[d]).toBeCloseTo(D[d], 14);
+      expect(lim.shift[d]).toBeCloseTo(((4 * Math.PI) / 3) * G2 * D[d], 13);
+    }
+    expect(Math.hypot(...D)).toBeGreaterThan(1e-3); // a shift that could be told from zero
+    const h = Object.fromEntries(reportContent(inp()).header);
+    expect(h['A (compared)']).toContain(`|G N·D/V| = ${formatNumber(Math.hypot(...lim.shift), 3)}`);
+    // the engine's own predicted limit of the same order: limit − Ewald is that shift for every target
+    const res = imageSumOrder(snap.positions, snap.masses, snap.box, Int32Array.of(0, 7, 99), { order: 'sphere', shells: 4, G: G2, tol: 1e-8 });
+    for (let t = 0; t < 3; t++) for (let d = 0; d < 3; d++) expect(res.limit![3 * t + d] - res.ewald[3 * t + d]).toBeCloseTo(lim.shift[d], 10);
+  });
+
+  it('header: PME with α, r_c, mesh, B-spline order, influence function and predicted error', () => {
+    const p = pmeRunB.pme!;
+    const b = Object.fromEntries(reportContent(inp()).header)['B (reference)'];
+    expect(b).toContain('PME tol 1e-3: particle-mesh Ewald, tolerance 1e-3');
+    expect(b).toContain(`α = ${formatNumber(p.alpha)} /length, r_c = ${formatNumber(p.rCut)}`);
+    expect(b).toContain(`mesh ${p.mesh.join('×')}, B-spline order p = ${p.order}, optimal influence function`);
+    expect(b).toContain(`predicted rms error ${formatNumber(p.predictedRmsError, 3)}`);
+    expect(b).toContain(`rms relative ${formatNumber(p.predictedRelativeError, 3)}`);
+  });
+
+  it('JSON: every parameter of both runs, numbers as the engine gave them, typed arrays as plain lists', () => {
+    const c = reportContent(inp());
+    const j = JSON.parse(JSON.stringify(reportSummary(inp(), c)));
+    expect(j.G).toBe(G2);
+    expect(j.compared.method).toBe('sphere');
+    for (const [k, v] of Object.entries(orderRunA.order!)) expect(j.compared[k]).toEqual(v);
+    expect(j.compared.predictedLimit.limit).toBe('Ewald + G N·D/V');
+    expect(j.reference.method).toBe('pme');
+    for (const [k, v] of Object.entries(pmeRunB.pme!)) expect(j.reference[k]).toEqual(v);
+    // the figures are those of A against B
+    expect(j.relativeError.p99).toBe(percentileLinear(sortedFinite(relativeErrors(orderRunA.acc, pmeRunB.acc)), 0.99));
+  });
+
+  it("README's check section names every key of the summary and of every method record", () => {
+    const readme = readFileSync(join(__dirname, '..', '..', 'README.md'), 'utf8');
+    const section = readme.slice(readme.indexOf('## Force-accuracy gate'));
+    const documented = (k: string) => section.includes(`\`${k}\``) || new RegExp(`\`[^\`]*\\b${k}\\b[^\`]*\``).test(section);
+    const j = reportSummary(inp(), reportContent(inp()), { width: 1, height: 1, pixelRatio: 2, regions: {} });
+    const mesh = methodRecord(state.comparison!.runA, snapshot);
+    const ewald = methodRecord(state.comparison!.runB, snapshot);
+    const keys = new Set([...Object.keys(j), ...Object.keys(j.compared as object), ...Object.keys(j.reference as object), ...Object.keys(mesh), ...Object.keys(ewald), 'predictedLimit']);
+    for (const k of Object.keys((j.compared as { predictedLimit: object }).predictedLimit)) keys.add(k);
+    const missing = [...keys].filter((k) => !documented(k));
+    expect(missing).toEqual([]);
+  });
+
+  it('the screened order: its λ list in words and in the JSON, limit Ewald; the nearest image: no limit', () => {
+    const base = { positions: snap.positions, masses: snap.masses, box: snap.box, targets: Int32Array.of(1, 2, 3) };
+    const scr = methodRunFrom(slot('screened', 'screened'), 'k', orderRun({ type: 'order', ...base, options: { order: 'screened', G: 1, tol: 1e-9, lambdas: [4, 2, 1] } }, progress), 1);
+    const near = methodRunFrom(slot('nearest', 'nearest image'), 'k', orderRun({ type: 'order', ...base, options: { order: 'nearest', G: 1 } }, progress), 1);
+    expect(methodText(scr, snap)).toContain('screened sums at λ = 4, 2, 1 (1/length), extrapolated to λ → 0');
+    expect(methodText(scr, snap)).toContain(`exact parts to tolerance 1e-9 (α = ${formatNumber(scr.order!.alpha!)} /length, r_c = ${formatNumber(scr.order!.rCut!)})`);
+    expect(methodText(scr, snap)).toContain('predicted limit: Ewald (λ → 0)');
+    const rec = JSON.parse(JSON.stringify(methodRecord(scr, snap)));
+    expect(rec.lambdas).toEqual([4, 2, 1]);
+    expect(rec.shells).toBeNull();
+    expect(methodText(near, snap)).toContain('nearest image of every particle only');
+    expect(methodText(near, snap)).toContain('predicted limit: none');
+    expect(methodRecord(near, snap)).toMatchObject({ method: 'nearest', order: 'nearest', predictedLimit: { shift: null } });
+  });
+
+  it('a slab order names its normal and layers; with the mean density kept the limit is the homologous one', () => {
+    const base = { positions: snap.positions, masses: snap.masses, box: snap.box, targets: Int32Array.of(5) };
+    const slab = methodRunFrom(slot('slab', 'slab z R 2'), 'k', orderRun({ type: 'order', ...base, options: { order: 'slab-z', shells: 2, background: false, G: 1, tol: 1e-6 } }, progress), 1);
+    const t = methodText(slab, snap);
+    expect(t).toContain('layers |n_z| ≤ R for R = 0 … 2, mean density kept');
+    expect(t).toContain('predicted limit: Ewald − G ρ̄ N·(r − x_com)');
+    expect(t).toContain('N 4π ẑẑ (slab)');
+    expect(t).not.toContain('|G N·D/V|');
+    expect((methodRecord(slab, snap) as Record<string, any>).predictedLimit.depolarisation).toEqual([0, 0, 0, 0, 0, 0, 0, 0, 4 * Math.PI]);
   });
 });

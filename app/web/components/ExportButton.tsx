@@ -1,19 +1,20 @@
 /**
- * "Export report": a verdict figure and limit, and the button that downloads the report PNG with the
+ * "Export report": a verdict figure and limit (kept with the view settings: the link and the browser's
+ * storage), and the button that downloads the report PNG with the
  * residuals CSV and the JSON summary beside it (app/web/report/).
  */
 import { useEffect, useState } from 'react';
 import { REQUIRE_KEY_WORDS, REQUIRE_KEYS, type RequireKey } from '../../../engine/stats/checkSummary';
 import { fileWatch } from '../report/fileDigest';
 import { download, reportFiles } from '../report/reportExport';
-import { DEFAULT_VERDICT, verdictLimitParse } from '../report/reportVerdict';
-import { appStore } from '../state/store';
+import { verdictLimitParse } from '../report/reportVerdict';
+import { appStore, viewSet } from '../state/store';
 import { useApp } from '../state/useApp';
 
 export function ExportButton() {
   const ready = useApp((s) => s.comparison !== null && s.snapshot !== null && s.comparison.snapshotId === s.snapshot.id);
-  const [key, setKey] = useState<RequireKey>(DEFAULT_VERDICT.key);
-  const [limit, setLimit] = useState(DEFAULT_VERDICT.limit);
+  const key = useApp((s) => s.draft.view.verdictKey);
+  const limit = useApp((s) => s.draft.view.verdictLimit);
   const [busy, setBusy] = useState(false);
   const [message, setMessage] = useState('');
   useEffect(() => fileWatch(), []);
@@ -41,7 +42,7 @@ export function ExportButton() {
     <div className="export-tools" data-testid="export-panel" style={{ display: 'flex', alignItems: 'center', gap: 6, flexWrap: 'wrap', justifyContent: 'flex-end' }}>
       <label style={{ display: 'flex', alignItems: 'center', gap: 4 }} title="the verdict printed on the report: this figure of the relative error must not exceed the limit">
         <span>verdict</span>
-        <select value={key} onChange={(e) => setKey(e.target.value as RequireKey)} data-testid="verdict-key">
+        <select value={key} onChange={(e) => viewSet({ verdictKey: e.target.value as RequireKey })} data-testid="verdict-key">
           {REQUIRE_KEYS.map((k) => (
             <option key={k} value={k}>
               {REQUIRE_KEY_WORDS[k]}
@@ -49,7 +50,7 @@ export function ExportButton() {
           ))}
         </select>
         <span>≤</span>
-        <input value={limit} onChange={(e) => setLimit(e.target.value)} data-testid="verdict-limit" size={6} aria-invalid={limitError !== ''} title={limitError || 'a fraction (0.01) or a percentage (1 %)'} />
+        <input value={limit} onChange={(e) => viewSet({ verdictLimit: e.target.value })} data-testid="verdict-limit" size={6} aria-invalid={limitError !== ''} title={limitError || 'a fraction (0.01) or a percentage (1 %)'} />
       </label>
       <button type="button" className="secondary-calm" data-testid="export-report" disabled={!ready || busy || limitError !== ''} onClick={() => void onClick()}>
         {busy ? 'Exporting…' : 'Export report'}

@@ -5,13 +5,17 @@
  * `torusgrav check --json`) and residuals CSV that go beside the image.
  */
 import { csvChunks } from '../../../engine/formats/csvWrite';
-import { type CheckFigures, type MethodRecord, checkFigures, checkReportJson, residualColumns } from '../../../engine/stats/checkSummary';
+import { type CheckFigures, checkFigures, checkReportJson, residualColumns } from '../../../engine/stats/checkSummary';
 import { formatBox, formatCount, formatDuration, formatNumber } from '../format';
 import { ORDER_PANEL_COLUMNS } from '../plots/orderConvergencePlot';
 import { orderConvergenceData, orderDefaultComponent } from '../plots/plotData';
 import type { AppState } from '../state/store';
-import type { Comparison, MethodRun, Snapshot } from '../state/types';
+import type { OrderTrace } from '../state/orderRuns';
+import type { Comparison, Snapshot } from '../state/types';
+import { methodRecord, methodText, runGravity } from './reportMethods';
 import { type Verdict, type VerdictChoice, reportVerdict } from './reportVerdict';
+
+export { methodRecord, methodText, paramsText } from './reportMethods';
 
 /** Where the SHA-256 in the report comes from. */
 export interface ReportDigest {
@@ -61,69 +65,26 @@ function g(v: number, digits = 4): string {
   return formatNumber(v, digits);
 }
 
-function softeningText(s: { kind: string; eps?: number; h?: number }): string {
-  if (s.kind === 'plummer') return `Plummer ε = ${g(s.eps!)}`;
-  if (s.kind === 'spline') return `cubic spline h = ${g(s.h!)}`;
-  return 'none (point masses)';
-}
-
-/** Parameters of the methods without a field of their own here (image-sum orders, particle-mesh Ewald). */
-function otherParams(run: MethodRun): Record<string, unknown> | null {
-  const r = run as unknown as Record<string, unknown>;
-  for (const k of ['order', 'pme']) if (r[k] && typeof r[k] === 'object') return r[k] as Record<string, unknown>;
-  return null;
-}
-
-/** "name value, name value" for a parameter record: numbers to 4 digits, lists joined, softening in words. */
-export function paramsText(p: Readonly<Record<string, unknown>>): string {
-  const one = (v: unknown): string => {
-    if (typeof v === 'number') return g(v);
-    if (Array.isArray(v) || ArrayBuffer.isView(v)) return Array.from(v as ArrayLike<unknown>, one).join('×');
-    if (v && typeof v === 'object' && 'kind' in v) return softeningText(v as { kind: string });
-    if (v && typeof v === 'object') return `(${paramsText(v as Record<string, unknown>)})`;
-    return String(v);
-  };
-  return Object.entries(p)
-    .filter(([, v]) => v !== undefined && typeof v !== 'function')
-    .map(([k, v]) => `${k} ${one(v)}`)
-    .join(', ');
-}
-
-/** The method's record for the JSON summary: its name, words and every parameter it ran with. */
-export function methodRecord(run: MethodRun, snap: Snapshot): MethodRecord {
-  if (run.ewald) return { method: 'ewald', label: run.label, ...run.ewald };
-  if (run.mesh) return { method: 'mesh', label: run.label, ...run.mesh, assignment: 'cloud-in-cell', shortRangeCorrection: false, predictedRmsError: null };
-  if (run.method === 'file') return { method: 'file', label: run.label, accelerations: snap.accelerationColumns ? snap.accelerationColumns.join(',') : null };
-  const more = otherParams(run);
-  return { method: run.method, label: run.label, ...(more ?? {}) };
-}
-
-/** One line about a method with every parameter and its chosen values and predicted error. */
-export function methodText(run: MethodRun, snap: Snapshot): string {
-  const e = run.ewald;
-  if (e) {
-    return (
-      `${run.label}: tolerance ${e.tol.toExponential()}, softening ${softeningText(e.softening)}${e.rSoft > 0 ? ` (kept to r = ${g(e.rSoft)})` : ''}; ` +
-      `chosen α = ${g(e.alpha)} /length, r_c = ${g(e.rCut)}, k_c = ${g(e.kCut)} /length (${formatCount(e.kVectors)} k-vectors, |h| ≤ ${e.hMax.join(', ')}), ` +
-      `cell grid ${e.cells.join('×')}, clustering factor ${g(e.clustering, 3)}; predicted rms error ${g(e.predictedRmsError, 3)} ` +
-      `(real ${g(e.realSpaceError, 3)}, Fourier ${g(e.fourierError, 3)}), relative ${g(e.predictedRelativeError, 3)} of |a| scale ${g(e.accelerationScale, 3)}; G = ${g(e.G)}`
-    );
-  }
-  const m = run.mesh;
-  if (m) {
-    return (
-      `${run.label}: ${m.mesh}³ mesh points, cells ${m.cell.map((c) => g(c)).join(' × ')} (length), cloud-in-cell assignment, ` +
-      `no short-range correction; no error estimate (forces smoothed below about 2 cells); G = ${g(m.G)}`
-    );
-  }
-  if (run.method === 'file') return `${run.label}: accelerations stored in the snapshot${snap.accelerationColumns ? `, columns ${snap.accelerationColumns.join(', ')}` : ''}`;
-  const more = otherParams(run);
-  return more ? `${run.label}: ${paramsText(more)}` : run.label;
-}
-
 /** The G of the comparison: from a computed method's parameters, else the page's setting. */
 function gravityOf(c: Comparison, draftG: string): number {
-  return c.runB.ewald?.G ?? c.runA.ewald?.G ?? c.runB.mesh?.G ?? c.runA.mesh?.G ?? Number(draftG);
+  return runGravity(c.runB) ?? runGravity(c.runA) ?? Number(draftG);
+}
+
+/**
+ * The partial sums of the comparison's own image-sum runs (as the page shows them) with their plot keys:
+ * "order-sphere", and "order-sphere-2" for a second run of the same order.
+ */
+export function reportOrderTraces(s: AppState): { key: `order-${string}`; trace: OrderTrace }[] {
+  const c = s.comparison;
+  if (!c || !s.convergence || s.convergence.snapshotId !== c.snapshotId) return [];
+  const seen = new Map<string, number>();
+  return (s.convergence.orders ?? [])
+    .filter((t) => t.runKey === c.runA.key || t.runKey === c.runB.key)
+    .map((trace) => {
+      const k = (seen.get(trace.method) ?? 0) + 1;
+      seen.set(trace.method, k);
+      return { key: k === 1 ? (`order-${trace.method}` as const) : (`order-${trace.method}-${k}` as const), trace };
+    });
 }
 
 /** Shown id of each target (the file's ids, else the 0-based rows). */
@@ -179,10 +140,10 @@ export function reportContent(o: ReportInput): ReportContent {
   if (s.convergence && s.convergence.snapshotId === c.snapshotId) {
     for (const ser of s.convergence.series) plots.push({ key: `convergence-${ser.method}`, height: 340 });
     // an image-sum order's partial sums: one panel per followed target, ORDER_PANEL_COLUMNS to a row
-    for (const t of s.convergence.orders ?? []) {
+    for (const { key, trace: t } of reportOrderTraces(s)) {
       const panels = orderConvergenceData(t, orderDefaultComponent(t), snap.ids).panels.length;
       const rows = Math.max(1, Math.ceil(panels / ORDER_PANEL_COLUMNS));
-      plots.push({ key: `order-${t.method}`, height: 80 + rows * 180, full: true });
+      plots.push({ key, height: 80 + rows * 180, full: true });
     }
   }
   const fileBase = `torusgrav-report-${reportStamp(o.created)}`;

@@ -14,7 +14,7 @@ import type { AppState } from '../state/store';
 import { VIEW_COLOURS } from '../view3d/scene';
 import { snapshotDigest } from './fileDigest';
 import { canvasMeasure, canvasSnapshot, reportCanvasDraw } from './reportCanvas';
-import { reportContent, reportResidualsCsv, reportSummary } from './reportContent';
+import { reportContent, reportOrderTraces, reportResidualsCsv, reportSummary } from './reportContent';
 import { type ReportLayout, reportLayout } from './reportLayout';
 import type { VerdictChoice } from './reportVerdict';
 import { cssColour, viewLegendSvg } from './reportViewLegend';
@@ -37,8 +37,8 @@ export function reportSvgs(s: AppState, layout: ReportLayout): Record<string, st
     else if (key === 'vs-neighbours') {
       const d = scatterByNeighbours(c, v.scatterX, s.selected);
       if (d) out[key] = scatterPlot(d, r.w, r.h);
-    } else if (key.startsWith('order-') && s.convergence) {
-      const t = s.convergence.orders?.find((x) => `order-${x.method}` === key);
+    } else if (key.startsWith('order-')) {
+      const t = reportOrderTraces(s).find((x) => x.key === key)?.trace;
       if (t) out[key] = orderConvergencePlot(orderConvergenceData(t, orderDefaultComponent(t), s.snapshot?.ids ?? null), r.w, r.h);
     } else if (key.startsWith('convergence-') && s.convergence) {
       const ser = s.convergence.series.find((x) => `convergence-${x.method}` === key);

@@ -4,6 +4,8 @@
  */
 import { type Box, boxMake } from '../../../engine/box';
 import { type MethodId, isMethodId, methodSpec, paramDefaults } from '../methods/registry';
+import { REQUIRE_KEYS, type RequireKey } from '../../../engine/stats/checkSummary';
+import { DEFAULT_VERDICT } from '../report/reportVerdict';
 
 /** One comparison slot: a method and its typed parameters (every method's, so switching keeps them). */
 export interface SlotDraft {
@@ -32,6 +34,9 @@ export interface ViewDraft {
   readonly context: boolean;
   /** Second scatter plot: against nearest-neighbour distance or local density. */
   readonly scatterX: ScatterAxis;
+  /** The report's verdict: this figure of the relative error must not exceed the limit (text as typed: "1 %", "0.01"). */
+  readonly verdictKey: RequireKey;
+  readonly verdictLimit: string;
 }
 
 export interface Draft {
@@ -73,6 +78,8 @@ export const DEFAULT_VIEW: ViewDraft = {
   slabThickness: '0.2',
   context: true,
   scatterX: 'nearest',
+  verdictKey: DEFAULT_VERDICT.key,
+  verdictLimit: DEFAULT_VERDICT.limit,
 };
 
 export function defaultDraft(): Draft {
@@ -139,6 +146,8 @@ const VIEW_KEYS: Record<keyof ViewDraft, string> = {
   slabThickness: 'slabw',
   context: 'context',
   scatterX: 'vs',
+  verdictKey: 'verdict',
+  verdictLimit: 'vlimit',
 };
 
 /** The query string (with "?", or "" when everything is default) that reproduces a draft. */
@@ -206,6 +215,7 @@ export function draftFromQuery(search: string, base: Draft = DEFAULT_DRAFT): Dra
       arrows: (['worst', 'all', 'none'] as const).includes(v.arrows) ? v.arrows : DEFAULT_VIEW.arrows,
       slabAxis: (['none', 'x', 'y', 'z'] as const).includes(v.slabAxis) ? v.slabAxis : DEFAULT_VIEW.slabAxis,
       scatterX: (['nearest', 'density'] as const).includes(v.scatterX) ? v.scatterX : DEFAULT_VIEW.scatterX,
+      verdictKey: (REQUIRE_KEYS as readonly string[]).includes(v.verdictKey) ? v.verdictKey : DEFAULT_VIEW.verdictKey,
     },
   };
 }

@@ -1,6 +1,7 @@
 // AssemblyScript source of the real-space Ewald kernels (JavaScript twin and definitions:
 // engine/ewald/realSpace.ts). Sorted particles in SoA arrays xs, ys, zs, ms; the kernel table holds 12
-// f64 per interval (degree-5 monomials in t ∈ [−1,1] for forceP, then potQ).
+// f64 per interval: the degree-5 monomial coefficients in t ∈ [−1,1] of forceP and potQ, paired per
+// power (P0, Q0, P1, Q1, …, P5, Q5) so that one 128-bit load serves both functions.
 // Pair terms: F = f_short − α³P(u), Ψ = ψ_short − αQ(u) for r < rCut, f_short − 1/r³ beyond (softening only).
 
 // Kernel parameters, set once per context by setKernel.
@@ -31,12 +32,15 @@ export function setKernel(alpha: f64, rCut: f64, rSoft: f64, perUnit: f64, uMax:
   gSoftLen = softLen;
 }
 
-@inline function hornerP(o: usize, t: f64): f64 {
-  return load<f64>(o) + t * (load<f64>(o, 8) + t * (load<f64>(o, 16) + t * (load<f64>(o, 24) + t * (load<f64>(o, 32) + t * load<f64>(o, 40)))));
-}
-
-@inline function hornerQ(o: usize, t: f64): f64 {
-  return load<f64>(o, 48) + t * (load<f64>(o, 56) + t * (load<f64>(o, 64) + t * (load<f64>(o, 72) + t * (load<f64>(o, 80) + t * load<f64>(o, 88)))));
+// forceP and potQ at t ∈ [−1,1] of the interval at o, as the lanes (P, Q) of one vector.
+@inline function hornerPQ(o: usize, t: f64): v128 {
+  const tv = f64x2.splat(t);
+  let a = v128.load(o, 80);
+  a = f64x2.add(v128.load(o, 64), f64x2.mul(tv, a));
+  a = f64x2.add(v128.load(o, 48), f64x2.mul(tv, a));
+  a = f64x2.add(v128.load(o, 32), f64x2.mul(tv, a));
+  a = f64x2.add(v128.load(o, 16), f64x2.mul(tv, a));
+  return f64x2.add(v128.load(o), f64x2.mul(tv, a));
 }
 
 // Generic scalar pair (any r2 < gRl2, r2 > 0 or softened): sets gF, gP.
@@ -71,18 +75,14 @@ function pairScalar(r2: f64): void {
     const s = r2 * gUScale;
     const iv = <i32>s;
     const t = 2.0 * (s - <f64>iv) - 1.0;
-    const o = gTable + <usize>iv * 96;
-    gF = fs - gAlpha3 * hornerP(o, t);
-    gP = ps - gAlpha * hornerQ(o, t);
+    const pq = hornerPQ(gTable + <usize>iv * 96, t);
+    gF = fs - gAlpha3 * f64x2.extract_lane(pq, 0);
+    gP = ps - gAlpha * f64x2.extract_lane(pq, 1);
   } else {
     const ir = 1.0 / Math.sqrt(r2);
     gF = fs - ir * ir * ir;
     gP = ps - ir;
   }
-}
-
-@inline function lane2(o0: usize, o1: usize, off: usize): v128 {
-  return f64x2.replace_lane(f64x2.splat(load<f64>(o0 + off)), 1, load<f64>(o1 + off));
 }
 
 // Accumulators for the i particle of the current inner loop (vector lanes summed at the end).
@@ -92,20 +92,23 @@ let vAz: v128 = f64x2.splat(0);
 let vPp: v128 = f64x2.splat(0);
 
 /**
- * Pair terms of particle (px,py,pz) with sources j0..j1−1 (skipping `skip`), accumulated into vAx.. with
- * sign −m_j F d (and Σ m_j Ψ). When `mi` ≠ 0 also adds +m_i F d, m_i Ψ into the sources' accumulators
- * (symmetric mode).
+ * Pair terms of particle (px,py,pz) with sources j0..j1−1 (skipping `skip` when `checkSkip`), added into
+ * vAx.. with sign −m_j F d (and Σ m_j Ψ). When `symmetric`, also adds +m_i F d, m_i Ψ into the sources'
+ * accumulators. `soft`: a softening radius is set, so some lanes may need the scalar path. The flags are
+ * compile-time constants at every call, so each combination is its own specialised loop.
  */
 @inline function pairRun(
-  px: f64, py: f64, pz: f64, mi: f64, symmetric: bool, j0: i32, j1: i32, skip: i32,
+  px: f64, py: f64, pz: f64, mi: f64, symmetric: bool, soft: bool, checkSkip: bool, j0: i32, j1: i32, skip: i32,
   xs: usize, ys: usize, zs: usize, ms: usize, ax: usize, ay: usize, az: usize, ph: usize,
 ): void {
   const pxv = f64x2.splat(px), pyv = f64x2.splat(py), pzv = f64x2.splat(pz);
   const rl2v = f64x2.splat(gRl2), rc2v = f64x2.splat(gRc2), rs2v = f64x2.splat(gRs2);
   const uScaleV = f64x2.splat(gUScale), uClampV = f64x2.splat(gUClamp);
   const a3v = f64x2.splat(gAlpha3), a1v = f64x2.splat(gAlpha);
-  const one = f64x2.splat(1.0), two = f64x2.splat(2.0);
+  const one = f64x2.splat(1.0), two = f64x2.splat(2.0), magic = f64x2.splat(4503599627370496.0);
   const miv = f64x2.splat(mi);
+  const table = gTable;
+  let sAx = f64x2.splat(0), sAy = f64x2.splat(0), sAz = f64x2.splat(0), sPp = f64x2.splat(0);
   let j = j0;
   for (; j + 1 < j1; j += 2) {
     const jo = <usize>j << 3;
@@ -116,11 +119,13 @@ let vPp: v128 = f64x2.splat(0);
     const inside = f64x2.lt(r2, rl2v);
     if (!v128.any_true(inside)) continue;
     // Lanes that need the scalar path: softened, beyond rCut (softening only), or the skipped self term.
-    const special = v128.or(f64x2.lt(r2, rs2v), v128.and(inside, f64x2.ge(r2, rc2v)));
-    if (v128.any_true(special) || j == skip || j + 1 == skip) {
+    let scalar = false;
+    if (soft) scalar = v128.any_true(v128.or(f64x2.lt(r2, rs2v), v128.and(inside, f64x2.ge(r2, rc2v))));
+    if (checkSkip) scalar = scalar || j == skip || j + 1 == skip;
+    if (scalar) {
       for (let l = 0; l < 2; l++) {
         const jj = j + l;
-        if (jj == skip) continue;
+        if (checkSkip && jj == skip) continue;
         const ddx = px - load<f64>(xs + (<usize>jj << 3));
         const ddy = py - load<f64>(ys + (<usize>jj << 3));
         const ddz = pz - load<f64>(zs + (<usize>jj << 3));
@@ -129,10 +134,10 @@ let vPp: v128 = f64x2.splat(0);
         pairScalar(rr);
         const mj = load<f64>(ms + (<usize>jj << 3));
         const fx = gF * ddx, fy = gF * ddy, fz = gF * ddz;
-        vAx = f64x2.sub(vAx, f64x2.replace_lane(f64x2.splat(0), 0, mj * fx));
-        vAy = f64x2.sub(vAy, f64x2.replace_lane(f64x2.splat(0), 0, mj * fy));
-        vAz = f64x2.sub(vAz, f64x2.replace_lane(f64x2.splat(0), 0, mj * fz));
-        vPp = f64x2.add(vPp, f64x2.replace_lane(f64x2.splat(0), 0, mj * gP));
+        sAx = f64x2.sub(sAx, f64x2.replace_lane(f64x2.splat(0), 0, mj * fx));
+        sAy = f64x2.sub(sAy, f64x2.replace_lane(f64x2.splat(0), 0, mj * fy));
+        sAz = f64x2.sub(sAz, f64x2.replace_lane(f64x2.splat(0), 0, mj * fz));
+        sPp = f64x2.add(sPp, f64x2.replace_lane(f64x2.splat(0), 0, mj * gP));
         if (symmetric) {
           const jo2 = <usize>jj << 3;
           store<f64>(ax + jo2, load<f64>(ax + jo2) + mi * fx);
@@ -144,31 +149,24 @@ let vPp: v128 = f64x2.splat(0);
       continue;
     }
     const ir = f64x2.div(one, f64x2.sqrt(r2));
-    const s = f64x2.min(f64x2.mul(r2, uScaleV), uClampV);
-    const iv = i32x4.trunc_sat_f64x2_s_zero(s);
-    const i0 = i32x4.extract_lane(iv, 0), i1 = i32x4.extract_lane(iv, 1);
-    const t = f64x2.sub(f64x2.mul(two, f64x2.sub(s, f64x2.convert_low_i32x4_s(iv))), one);
-    const o0 = gTable + <usize>i0 * 96, o1 = gTable + <usize>i1 * 96;
-    let P = lane2(o0, o1, 40);
-    P = f64x2.add(lane2(o0, o1, 32), f64x2.mul(t, P));
-    P = f64x2.add(lane2(o0, o1, 24), f64x2.mul(t, P));
-    P = f64x2.add(lane2(o0, o1, 16), f64x2.mul(t, P));
-    P = f64x2.add(lane2(o0, o1, 8), f64x2.mul(t, P));
-    P = f64x2.add(lane2(o0, o1, 0), f64x2.mul(t, P));
-    let Q = lane2(o0, o1, 88);
-    Q = f64x2.add(lane2(o0, o1, 80), f64x2.mul(t, Q));
-    Q = f64x2.add(lane2(o0, o1, 72), f64x2.mul(t, Q));
-    Q = f64x2.add(lane2(o0, o1, 64), f64x2.mul(t, Q));
-    Q = f64x2.add(lane2(o0, o1, 56), f64x2.mul(t, Q));
-    Q = f64x2.add(lane2(o0, o1, 48), f64x2.mul(t, Q));
+    // Interval index and local variable; pmin is a plain minimum (r2 is never NaN here). Adding 2^52 to
+    // the floored index puts it in the low bits of the double.
+    const s = f64x2.pmin(f64x2.mul(r2, uScaleV), uClampV);
+    const fl = f64x2.floor(s);
+    const t = f64x2.sub(f64x2.mul(two, f64x2.sub(s, fl)), one);
+    const bits = f64x2.add(fl, magic);
+    const pq0 = hornerPQ(table + <usize>i32x4.extract_lane(bits, 0) * 96, f64x2.extract_lane(t, 0));
+    const pq1 = hornerPQ(table + <usize>i32x4.extract_lane(bits, 2) * 96, f64x2.extract_lane(t, 1));
+    const P = f64x2.shuffle(pq0, pq1, 0, 2);
+    const Q = f64x2.shuffle(pq0, pq1, 1, 3);
     const F = v128.and(f64x2.sub(f64x2.mul(f64x2.mul(ir, ir), ir), f64x2.mul(a3v, P)), inside);
     const Pot = v128.and(f64x2.sub(ir, f64x2.mul(a1v, Q)), inside);
     const mj = v128.load(ms + jo);
     const fx = f64x2.mul(F, dx), fy = f64x2.mul(F, dy), fz = f64x2.mul(F, dz);
-    vAx = f64x2.sub(vAx, f64x2.mul(mj, fx));
-    vAy = f64x2.sub(vAy, f64x2.mul(mj, fy));
-    vAz = f64x2.sub(vAz, f64x2.mul(mj, fz));
-    vPp = f64x2.add(vPp, f64x2.mul(mj, Pot));
+    sAx = f64x2.sub(sAx, f64x2.mul(mj, fx));
+    sAy = f64x2.sub(sAy, f64x2.mul(mj, fy));
+    sAz = f64x2.sub(sAz, f64x2.mul(mj, fz));
+    sPp = f64x2.add(sPp, f64x2.mul(mj, Pot));
     if (symmetric) {
       v128.store(ax + jo, f64x2.add(v128.load(ax + jo), f64x2.mul(miv, fx)));
       v128.store(ay + jo, f64x2.add(v128.load(ay + jo), f64x2.mul(miv, fy)));
@@ -176,7 +174,7 @@ let vPp: v128 = f64x2.splat(0);
       v128.store(ph + jo, f64x2.add(v128.load(ph + jo), f64x2.mul(miv, Pot)));
     }
   }
-  if (j < j1 && j != skip) {
+  if (j < j1 && !(checkSkip && j == skip)) {
     const jo = <usize>j << 3;
     const ddx = px - load<f64>(xs + jo), ddy = py - load<f64>(ys + jo), ddz = pz - load<f64>(zs + jo);
     const rr = ddx * ddx + ddy * ddy + ddz * ddz;
@@ -184,10 +182,10 @@ let vPp: v128 = f64x2.splat(0);
       pairScalar(rr);
       const mj = load<f64>(ms + jo);
       const fx = gF * ddx, fy = gF * ddy, fz = gF * ddz;
-      vAx = f64x2.sub(vAx, f64x2.replace_lane(f64x2.splat(0), 0, mj * fx));
-      vAy = f64x2.sub(vAy, f64x2.replace_lane(f64x2.splat(0), 0, mj * fy));
-      vAz = f64x2.sub(vAz, f64x2.replace_lane(f64x2.splat(0), 0, mj * fz));
-      vPp = f64x2.add(vPp, f64x2.replace_lane(f64x2.splat(0), 0, mj * gP));
+      sAx = f64x2.sub(sAx, f64x2.replace_lane(f64x2.splat(0), 0, mj * fx));
+      sAy = f64x2.sub(sAy, f64x2.replace_lane(f64x2.splat(0), 0, mj * fy));
+      sAz = f64x2.sub(sAz, f64x2.replace_lane(f64x2.splat(0), 0, mj * fz));
+      sPp = f64x2.add(sPp, f64x2.replace_lane(f64x2.splat(0), 0, mj * gP));
       if (symmetric) {
         store<f64>(ax + jo, load<f64>(ax + jo) + mi * fx);
         store<f64>(ay + jo, load<f64>(ay + jo) + mi * fy);
@@ -196,6 +194,10 @@ let vPp: v128 = f64x2.splat(0);
       }
     }
   }
+  vAx = f64x2.add(vAx, sAx);
+  vAy = f64x2.add(vAy, sAy);
+  vAz = f64x2.add(vAz, sAz);
+  vPp = f64x2.add(vPp, sPp);
 }
 
 @inline function hsum(v: v128): f64 {
@@ -224,6 +226,7 @@ export function realSpaceAll(
   wx: f64, wy: f64, wz: f64, start: usize, stencil: usize, halfCount: i32,
   xs: usize, ys: usize, zs: usize, ms: usize, ax: usize, ay: usize, az: usize, ph: usize,
 ): void {
+  const soft = gRs2 > 0;
   for (let cell0 = cellBegin; cell0 < cellEnd; cell0++) {
     const i0 = load<i32>(start + (<usize>cell0 << 2)), i1 = load<i32>(start + (<usize>cell0 << 2), 4);
     if (i0 == i1) continue;
@@ -247,8 +250,10 @@ export function realSpaceAll(
         if (q != 0 && boxDistance2(load<f64>(xs + io), load<f64>(ys + io), load<f64>(zs + io), bx, by, bz, wx, wy, wz) >= gRl2) continue;
         const mi = load<f64>(ms + io);
         vAx = f64x2.splat(0); vAy = f64x2.splat(0); vAz = f64x2.splat(0); vPp = f64x2.splat(0);
-        pairRun(load<f64>(xs + io) - sx, load<f64>(ys + io) - sy, load<f64>(zs + io) - sz, mi, true,
-          q == 0 ? i + 1 : j0, j1, -1, xs, ys, zs, ms, ax, ay, az, ph);
+        const px = load<f64>(xs + io) - sx, py = load<f64>(ys + io) - sy, pz = load<f64>(zs + io) - sz;
+        const js = q == 0 ? i + 1 : j0;
+        if (soft) pairRun(px, py, pz, mi, true, true, false, js, j1, -1, xs, ys, zs, ms, ax, ay, az, ph);
+        else pairRun(px, py, pz, mi, true, false, false, js, j1, -1, xs, ys, zs, ms, ax, ay, az, ph);
         store<f64>(ax + io, load<f64>(ax + io) + hsum(vAx));
         store<f64>(ay + io, load<f64>(ay + io) + hsum(vAy));
         store<f64>(az + io, load<f64>(az + io) + hsum(vAz));
@@ -267,6 +272,7 @@ export function realSpaceTargets(
   wx: f64, wy: f64, wz: f64, start: usize, stencil: usize, nStencil: i32,
   xs: usize, ys: usize, zs: usize, ms: usize, acc: usize, phi: usize,
 ): void {
+  const soft = gRs2 > 0;
   for (let t = begin; t < end; t++) {
     const si = load<i32>(tslot + (<usize>t << 2));
     const io = <usize>si << 3;
@@ -290,7 +296,9 @@ export function realSpaceTargets(
       const cell = (ix * ny + iy) * nz + iz;
       const j0 = load<i32>(start + (<usize>cell << 2)), j1 = load<i32>(start + (<usize>cell << 2), 4);
       if (j0 == j1) continue;
-      pairRun(px, py, pz, 0, false, j0, j1, q == 0 ? si : -1, xs, ys, zs, ms, 0, 0, 0, 0);
+      if (q == 0) pairRun(px, py, pz, 0, false, true, true, j0, j1, si, xs, ys, zs, ms, 0, 0, 0, 0);
+      else if (soft) pairRun(px, py, pz, 0, false, true, false, j0, j1, -1, xs, ys, zs, ms, 0, 0, 0, 0);
+      else pairRun(px, py, pz, 0, false, false, false, j0, j1, -1, xs, ys, zs, ms, 0, 0, 0, 0);
     }
     const a = acc + <usize>(24 * (t - begin));
     store<f64>(a, load<f64>(a) + hsum(vAx));

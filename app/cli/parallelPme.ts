@@ -1,0 +1,235 @@
+/**
+ * Particle-mesh Ewald on worker_threads over shared memory. Scheduling only; the numerics are the
+ * engine's (engine/pme/pme.ts), in the same order of pieces as pmeForces on one thread:
+ *   workers start loading → this thread chooses the parameters (pmeSetup, with the error model) → each
+ *   worker makes a pinned setup from this one's cell list (shared memory) and tables (same sorted order)
+ *   → phases, every one split over all threads (this one included) by a shared counter, with a barrier
+ *   after each (app/common/pmePhases.ts): spreading in x-slab blocks of one parity at a time (disjoint mesh planes),
+ *   FFT column blocks, spectrum slabs, column blocks, then interpolation (particle ranges) and the
+ *   real-space sums (cell chunks) → the workers' real-space sums are added here → pmeFinalize.
+ * Ctrl-C ends the process (workers included) with the default signal action; nothing is written before.
+ */
+import { Worker } from 'node:worker_threads';
+import { type Box } from '../../engine/box';
+import type { Progress } from '../../engine/ewald/ewald';
+import {
+  type PmeOptions,
+  type PmeParams,
+  type PmeResult,
+  type PmeSetupShared,
+  pmeFinalize,
+  pmeForces,
+  pmeMeshLength,
+  pmePredictedErrors,
+  pmeRealCollect,
+  pmeScratch,
+  pmeSetup,
+  pmeSpreadBlocks,
+} from '../../engine/pme/index';
+import { PME_PHASES, type PmePhase, type PmeShared, pmePhaseRun } from '../common/pmePhases';
+
+/**
+ * Largest automatic mesh on the command line (points): 10^8 (0.8 GB), larger than the engine's default
+ * (a browser tab's budget), so that clustered 10^6-particle snapshots get a fine mesh and a short
+ * real-space cutoff while two threads stay under 1.5 GB in all (measured: `npm run bench`).
+ */
+export const PME_CLI_MAX_MESH = 1e8;
+
+/** Runs below this many particles stay on one thread (worker start-up costs more than it saves). */
+export const PME_THREADED_MIN_PARTICLES = 8192;
+
+export type PmeWorkerRequest =
+  | {
+      type: 'setup';
+      positions: SharedArrayBuffer;
+      masses: SharedArrayBuffer;
+      box: [number, number, number];
+      params: PmeParams;
+      /** The main setup's cell list (typed arrays over shared memory) and small tables, reused as they are. */
+      reuse: PmeSetupShared;
+      mesh: SharedArrayBuffer;
+      acc: SharedArrayBuffer;
+      phi: SharedArrayBuffer;
+      counters: SharedArrayBuffer;
+      cuts: SharedArrayBuffer | null;
+    }
+  | { type: 'phases'; phases: PmePhase[] }
+  | { type: 'collect' };
+
+export type PmeWorkerReply = { type: 'done' } | { type: 'collected'; acc: Float64Array; phi: Float64Array } | { type: 'error'; message: string };
+
+export interface PmeThreadsResult extends PmeResult {
+  /** Threads that computed (this one included). */
+  readonly threadsUsed: number;
+  /** Predicted acceleration error per particle (acceleration units; pmePredictedErrors), when threaded. */
+  readonly predictedErrors?: Float64Array;
+  /** Wall-clock seconds per stage: setup (parameters), spread, fft, interpolation + real space, finish. */
+  readonly phases: Readonly<Record<string, number>>;
+  /** CPU seconds of the process (all threads) per stage, when threaded. */
+  readonly cpuPhases?: Readonly<Record<string, number>>;
+}
+
+function sharedCopy(a: Float64Array | Int32Array): SharedArrayBuffer {
+  const buf = new SharedArrayBuffer(a.byteLength);
+  new Uint8Array(buf).set(new Uint8Array(a.buffer, a.byteOffset, a.byteLength));
+  return buf;
+}
+
+/** The setup's cell list with its big arrays in shared memory (posted to workers without copying). */
+function sharedReuse(setup: ReturnType<typeof pmeSetup>): PmeSetupShared {
+  const c = setup.cells;
+  return {
+    cells: {
+      ...c,
+      xyzm: new Float64Array(sharedCopy(c.xyzm)),
+      order: new Int32Array(sharedCopy(c.order)),
+      slot: new Int32Array(sharedCopy(c.slot)),
+      start: new Int32Array(sharedCopy(c.start)),
+    },
+    influence: setup.influence,
+    selfForce: setup.selfForce,
+  };
+}
+
+/** One worker with a request/reply channel (one request at a time). */
+class PmeWorkerHandle {
+  private readonly worker: Worker;
+  private pending: { resolve: (r: PmeWorkerReply) => void; reject: (e: Error) => void } | null = null;
+  private failed: Error | null = null;
+
+  constructor(url: URL) {
+    this.worker = new Worker(url);
+    this.worker.on('message', (r: PmeWorkerReply) => {
+      const p = this.pending;
+      this.pending = null;
+      if (r.type === 'error') p?.reject(new Error(r.message));
+      else p?.resolve(r);
+    });
+    this.worker.on('error', (e) => {
+      this.failed = e instanceof Error ? e : new Error(String(e));
+      this.pending?.reject(this.failed);
+      this.pending = null;
+    });
+  }
+
+  send(msg: PmeWorkerRequest): Promise<PmeWorkerReply> {
+    if (this.failed) return Promise.reject(this.failed);
+    return new Promise((resolve, reject) => {
+      this.pending = { resolve, reject };
+      this.worker.postMessage(msg);
+    });
+  }
+
+  close(): Promise<number> {
+    return this.worker.terminate();
+  }
+}
+
+/** Spreading blocks: several per thread for balance, fewer when the mesh is thin, none (one unit) at worst. */
+function spreadCuts(setup: ReturnType<typeof pmeSetup>, threads: number): Int32Array | null {
+  for (let perThread = 4; perThread >= 1; perThread--) {
+    const cuts = pmeSpreadBlocks(setup, 2 * threads * perThread);
+    if (cuts) return cuts;
+  }
+  return pmeSpreadBlocks(setup, 2);
+}
+
+/**
+ * All-particle accelerations (G·mass/length², input order) and zero-mean potentials by particle-mesh
+ * Ewald on `threads` threads (this one and threads − 1 workers; threads = 1 runs the same phases here
+ * alone); fewer particles than `minParticles` run pmeForces here. Same results as pmeForces up to rounding.
+ * workerUrl: the compiled worker module (defaults to pmeWorker.mjs beside this bundle).
+ */
+export async function pmeForcesThreads(
+  positions: Float64Array,
+  masses: Float64Array,
+  box: Box,
+  options: PmeOptions,
+  threads: number,
+  onProgress?: Progress,
+  workerUrl: URL = new URL('./pmeWorker.mjs', import.meta.url),
+  minParticles: number = PME_THREADED_MIN_PARTICLES,
+): Promise<PmeThreadsResult> {
+  const n = masses.length;
+  const t0 = performance.now();
+  options = { maxMeshPoints: PME_CLI_MAX_MESH, ...options };
+  if (n < minParticles) {
+    const r = pmeForces(positions, masses, box, options, onProgress);
+    return { ...r, threadsUsed: 1, phases: { total: (performance.now() - t0) / 1000 } };
+  }
+  const phases: Record<string, number> = {};
+  const cpuPhases: Record<string, number> = {};
+  let t = t0;
+  let cpu = process.cpuUsage();
+  const lap = (name: string) => {
+    const now = performance.now();
+    const c = process.cpuUsage(cpu);
+    phases[name] = (now - t) / 1000;
+    cpuPhases[name] = (c.user + c.system) / 1e6;
+    t = now;
+    cpu = process.cpuUsage();
+  };
+  // Workers load their module while the parameters are chosen here.
+  const workers = Array.from({ length: Math.max(0, threads - 1) }, () => new PmeWorkerHandle(workerUrl));
+  try {
+    const setup = pmeSetup(positions, masses, box, options);
+    lap('setup');
+    const meshBuf = new SharedArrayBuffer(8 * pmeMeshLength(setup));
+    const accBuf = new SharedArrayBuffer(8 * 3 * n);
+    const phiBuf = new SharedArrayBuffer(8 * n);
+    const counterBuf = new SharedArrayBuffer(4 * PME_PHASES.length);
+    const cuts = spreadCuts(setup, threads);
+    const cutsBuf = cuts ? sharedCopy(cuts) : null;
+    const mine: PmeShared = {
+      setup,
+      mesh: new Float64Array(meshBuf),
+      accSorted: new Float64Array(accBuf),
+      phiSorted: new Float64Array(phiBuf),
+      counters: new Int32Array(counterBuf),
+      cuts: cutsBuf ? new Int32Array(cutsBuf) : null,
+      scratch: pmeScratch(setup),
+    };
+    const positionsBuf = sharedCopy(setup.positions);
+    const massesBuf = sharedCopy(masses);
+    const reuse = workers.length > 0 ? sharedReuse(setup) : null;
+    const ready = workers.map((w) =>
+      w.send({
+        type: 'setup', positions: positionsBuf, masses: massesBuf, box: [box.lx, box.ly, box.lz], params: setup.params, reuse: reuse!,
+        mesh: meshBuf, acc: accBuf, phi: phiBuf, counters: counterBuf, cuts: cutsBuf,
+      }),
+    );
+    // Every thread runs the same phases; the workers' replies are the barrier. The first spreading
+    // phase starts here while the workers still build their setups (they join when ready).
+    const stage = async (list: PmePhase[], from: number, to: number) => {
+      const replies = workers.map((w, i) => ready[i].then(() => w.send({ type: 'phases', phases: list })));
+      for (const p of list) {
+        pmePhaseRun(mine, p, p === 'real' ? (done, total) => onProgress?.(from + ((to - from) * done) / total) : undefined);
+      }
+      await Promise.all(replies);
+      onProgress?.(to);
+    };
+    await stage(['spreadEven'], 0, 0.05);
+    await stage(['spreadOdd', 'spreadAll'], 0.05, 0.1);
+    lap('spread');
+    await stage(['forward'], 0.1, 0.15);
+    await stage(['solve'], 0.15, 0.2);
+    await stage(['inverse'], 0.2, 0.25);
+    lap('fft');
+    await stage(['interpolate', 'real'], 0.25, 0.98);
+    lap('interpolateReal');
+    pmeRealCollect(setup, mine.accSorted, mine.phiSorted);
+    for (const w of workers) {
+      const r = await w.send({ type: 'collect' });
+      if (r.type !== 'collected') throw new Error('pme worker: unexpected reply to collect');
+      for (let k = 0; k < r.acc.length; k++) mine.accSorted[k] += r.acc[k];
+      for (let k = 0; k < r.phi.length; k++) mine.phiSorted[k] += r.phi[k];
+    }
+    const { acc, phi } = pmeFinalize(setup, mine.accSorted, mine.phiSorted);
+    const predicted = pmePredictedErrors(setup, acc);
+    lap('finish');
+    onProgress?.(1);
+    return { acc, phi, params: setup.params, wrapped: setup.wrapped, predictedRmsRelativeError: predicted.rmsRelative, predictedErrors: predicted.perParticle, threadsUsed: workers.length + 1, phases, cpuPhases };
+  } finally {
+    await Promise.all(workers.map((w) => w.close()));
+  }
+}

@@ -1,0 +1,55 @@
+/**
+ * ewaldForcesThreads (worker threads over the built dist-cli/forceWorker.mjs) against ewaldForces on this
+ * thread: same pieces, so equal up to summation order (1e-12 relative in accelerations, 1e-12 of rms φ),
+ * for all targets and for a subset (the per-target path, whose chunks wait for the weighted structure
+ * factor), with and without a prestarted (warm) pool.
+ */
+import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { ewaldForcesThreads, ewaldThreadsWarm } from '../../app/cli/parallelEwald';
+import { ewaldForces } from '../../engine/ewald/ewald';
+import { snapshotClustered } from '../helpers/snapshots';
+import { maxScalarErrorOverRms, maxVectorRelativeError } from '../helpers/tolerance';
+import { ROOT, cliEnsureBuilt } from './cliHarness';
+
+const workerUrl = pathToFileURL(join(ROOT, 'dist-cli', 'forceWorker.mjs'));
+const s = snapshotClustered(3001, 9, [1, 1.3, 0.8]);
+
+beforeAll(() => cliEnsureBuilt());
+
+describe('ewaldForcesThreads on 2 threads (this one and a worker)', () => {
+  it('all targets, spline softening, warm pool: the one-thread values to 1e-12', async () => {
+    const options = { tol: 1e-7, softening: { kind: 'spline', h: 0.02 } } as const;
+    ewaldThreadsWarm(2, workerUrl);
+    const two = await ewaldForcesThreads(s.positions, s.masses, s.box, null, options, 2, undefined, workerUrl);
+    const one = ewaldForces(s.positions, s.masses, s.box, null, options);
+    expect(maxVectorRelativeError(two.acc, one.acc)).toBeLessThan(1e-12);
+    expect(maxScalarErrorOverRms(two.phi, one.phi)).toBeLessThan(1e-12);
+    expect(two.params.alpha).toBe(one.params.alpha);
+  });
+
+  it('a subset of 700 targets (odd rows), no warm pool: the one-thread values to 1e-12, in target order', async () => {
+    const targets = Int32Array.from({ length: 700 }, (_, t) => 2 * t + 1);
+    const two = await ewaldForcesThreads(s.positions, s.masses, s.box, targets, { tol: 1e-6 }, 2, undefined, workerUrl);
+    const one = ewaldForces(s.positions, s.masses, s.box, targets, { tol: 1e-6 });
+    expect(Array.from(two.targets)).toEqual(Array.from(targets));
+    expect(maxVectorRelativeError(two.acc, one.acc)).toBeLessThan(1e-12);
+    expect(maxScalarErrorOverRms(two.phi, one.phi)).toBeLessThan(1e-12);
+  });
+
+  it('a worker module that cannot be loaded (warm or not): the call rejects instead of waiting forever', async () => {
+    const missing = pathToFileURL(join(ROOT, 'dist-cli', 'no-such-worker.mjs'));
+    ewaldThreadsWarm(2, missing);
+    await new Promise((r) => setTimeout(r, 200));
+    await expect(ewaldForcesThreads(s.positions, s.masses, s.box, null, { tol: 1e-4 }, 2, undefined, missing)).rejects.toThrow();
+    await expect(ewaldForcesThreads(s.positions, s.masses, s.box, null, { tol: 1e-4 }, 2, undefined, missing)).rejects.toThrow();
+  });
+
+  it('a warm pool of another size is replaced, and bad input still fails with the engine error', async () => {
+    ewaldThreadsWarm(3, workerUrl);
+    const p = Float64Array.from(s.positions);
+    p.set(p.subarray(0, 3), 3 * 5);
+    await expect(ewaldForcesThreads(p, s.masses, s.box, null, {}, 2, undefined, workerUrl)).rejects.toThrow(/particles 0 and 5 sit at the same position/);
+  });
+});
