@@ -37,6 +37,11 @@ export const tests = {
     await page.waitForTimeout(400);
     // each compute worker holds a Web Lock named for it while it lives (worker/liveness.ts)
     const computeLocks = () => page.evaluate(async () => (await navigator.locks.query()).held.map((l) => l.name).filter((n) => n.startsWith('torusgrav-compute-')));
+    // a terminated worker's lock is released asynchronously (the cancelled run's worker may still be
+    // going away, more slowly on a loaded machine): wait until one holder is left
+    await page
+      .waitForFunction(async () => (await navigator.locks.query()).held.filter((l) => l.name.startsWith('torusgrav-compute-')).length === 1, null, { timeout: 10_000, polling: 100 })
+      .catch(() => {});
     const first = await computeLocks();
     check(first.length === 1, `expected one live compute worker, found ${JSON.stringify(first)}`);
     await page.fill('input[name=targets]', '512');

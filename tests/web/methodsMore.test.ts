@@ -33,7 +33,7 @@ describe('the registry', () => {
     expect(paramsVisible('slab', p).map((s) => s.key)).toEqual(['slab.axis', 'slab.shells', 'order.background', 'order.tol']);
     expect(paramsVisible('screened', p).map((s) => s.key)).toEqual(['screened.lambdas', 'order.tol']);
     expect(paramsVisible('nearest', p)).toEqual([]);
-    expect(paramsVisible('pme', { ...p, 'ewald.softening': 'plummer' }).map((s) => s.key)).toEqual(['pme.tol', 'pme.mesh', 'pme.order', 'pme.influence', 'ewald.softening', 'ewald.eps']);
+    expect(paramsVisible('pme', { ...p, 'ewald.softening': 'plummer' }).map((s) => s.key)).toEqual(['pme.tol', 'pme.mesh', 'pme.order', 'pme.influence', 'pme.threads', 'ewald.softening', 'ewald.eps']);
   });
 });
 

@@ -10,7 +10,8 @@ import { errorColourScale, errorColours, errorLegend } from '../plots/colourScal
 import { type AppState, appStore, select, viewSet } from '../state/store';
 import type { Comparison, Snapshot } from '../state/types';
 import { useApp } from '../state/useApp';
-import { arrowSegments, drawOrder, slabContains, slabMake, worldPositionsInto } from '../view3d/geometry';
+import { drawOrderSliced, forSliced, slicer, worldPositionsSliced, yieldTask } from '../view3d/cloudBuild';
+import { arrowSegments, slabContains, slabMake } from '../view3d/geometry';
 import { MOVING_MIN_POINTS, type ViewHandle, viewCreate } from '../view3d/scene';
 import { SvgPlot } from './SvgPlot';
 
@@ -50,65 +51,77 @@ function bind(view: ViewHandle, onDrawn: (d: DrawnInfo) => void): () => void {
   let built: Built = { cmp: null, snapshot: null, order: null, slotOf: null, world: null };
   const slot = (t: number) => (built.slotOf ? built.slotOf[t] : t);
 
-  // clouds are built in pieces of PIECE points, one task each, so that 10⁶ particles do not hold the page
+  // clouds are built in slices of a few milliseconds (cloudBuild.ts), so that 10⁶ particles do not hold
+  // the page; a newer snapshot or comparison supersedes a build under way
   let generation = 0;
-  const PIECE = 131_072;
-  const pause = () => new Promise<void>((r) => setTimeout(r, 0));
-  const fill = async (out: Float32Array, positions: Float64Array, box: Snapshot['box'], rows: Int32Array | null, order: Uint32Array | undefined, count: number, gen: number) => {
-    for (let b = 0; b < count; b += PIECE) {
-      if (b > 0) await pause();
-      if (gen !== generation) return false;
-      worldPositionsInto(out, positions, box, rows, order, b, Math.min(count, b + PIECE));
-    }
-    return gen === generation;
-  };
 
   const cloud = async (s: AppState): Promise<boolean> => {
     const gen = ++generation;
+    const { tick, yieldNow } = slicer(() => gen === generation);
     const snap = s.snapshot;
     const cmp = s.comparison && snap && s.comparison.snapshotId === snap.id ? s.comparison : null;
     if (!snap) return false;
+    // software rendering draws at most view.capacity() points: only those are built
+    const cap = view.capacity();
     if (!cmp) {
-      const order = snap.n > MOVING_MIN_POINTS ? drawOrder(snap.n) : undefined;
-      const world = new Float32Array(3 * snap.n);
-      if (!(await fill(world, snap.positions, snap.box, null, order, snap.n, gen))) return false;
-      view.setCloud(snap.box, null, null, world);
+      const m = Math.min(snap.n, cap);
+      const order = snap.n > MOVING_MIN_POINTS ? await drawOrderSliced(snap.n, m, tick) : undefined;
+      if (order === null) return false;
+      const world = new Float32Array(3 * m);
+      if (!(await worldPositionsSliced(world, snap.positions, snap.box, null, order, m, tick))) return false;
+      view.setCloud(snap.box, null, null, world, snap.n);
       built = { cmp: null, snapshot: snap, order: null, slotOf: null, world: null };
       onDrawn({ ...view.drawn(), of: `snapshot ${snap.id}` });
       return true;
     }
+    // every target is built (picking and flying to the worst need their places); the others as drawn
     const K = cmp.targets.indices.length;
-    const order = K > MOVING_MIN_POINTS ? drawOrder(K) : null;
+    let order: Uint32Array | null = null;
+    if (K > MOVING_MIN_POINTS) {
+      order = await drawOrderSliced(K, K, tick);
+      if (!order) return false;
+    }
     let slotOf: Uint32Array | null = null;
     if (order) {
       slotOf = new Uint32Array(K);
-      for (let s2 = 0; s2 < K; s2++) slotOf[order[s2]] = s2;
-    }
+      if (!(await forSliced(K, (b, e) => {
+        for (let s2 = b; s2 < e; s2++) slotOf![order[s2]] = s2;
+      }, tick))) return false;
+    } else if (!(await tick())) return false;
     const world = new Float32Array(3 * K);
-    if (!(await fill(world, snap.positions, snap.box, cmp.targets.indices, order ?? undefined, K, gen))) return false;
-    let rel = cmp.relative;
-    if (order) {
-      rel = new Float64Array(K);
-      for (let s2 = 0; s2 < K; s2++) rel[s2] = cmp.relative[order[s2]];
-    }
+    if (!(await worldPositionsSliced(world, snap.positions, snap.box, cmp.targets.indices, order ?? undefined, K, tick))) return false;
+    const scale = colourScaleOf(cmp);
     const colours = new Float32Array(3 * K);
-    errorColours(colourScaleOf(cmp), rel, colours);
+    if (!(await forSliced(K, (b, e) => {
+      if (!order) errorColours(scale, cmp.relative.subarray(b, e), colours, b);
+      else {
+        const rel = new Float64Array(e - b);
+        for (let s2 = b; s2 < e; s2++) rel[s2 - b] = cmp.relative[order[s2]];
+        errorColours(scale, rel, colours, b);
+      }
+    }, tick))) return false;
     let context: Float32Array | null = null;
+    let contextTotal = 0;
     if (!cmp.targets.all) {
       // the other particles: the complement of the (sorted) target rows
       const ti = cmp.targets.indices;
-      const rows = new Int32Array(snap.n - K);
+      contextTotal = snap.n - K;
+      const rows = new Int32Array(contextTotal);
       let k = 0, t = 0;
-      for (let i = 0; i < snap.n; i++) {
-        if (t < ti.length && ti[t] === i) t++;
-        else rows[k++] = i;
-      }
-      context = new Float32Array(3 * rows.length);
-      const cOrder = rows.length > MOVING_MIN_POINTS ? drawOrder(rows.length) : undefined;
-      await pause();
-      if (!(await fill(context, snap.positions, snap.box, rows, cOrder, rows.length, gen))) return false;
+      if (!(await forSliced(snap.n, (b, e) => {
+        for (let i = b; i < e; i++) {
+          if (t < ti.length && ti[t] === i) t++;
+          else rows[k++] = i;
+        }
+      }, tick))) return false;
+      const m = Math.max(0, Math.min(contextTotal, cap - Math.min(K, cap)));
+      const cOrder = contextTotal > MOVING_MIN_POINTS ? await drawOrderSliced(contextTotal, m, tick) : undefined;
+      if (cOrder === null) return false;
+      context = new Float32Array(3 * m);
+      if (!(await worldPositionsSliced(context, snap.positions, snap.box, rows, cOrder, m, tick))) return false;
     }
-    view.setCloud(snap.box, world, colours, context);
+    if (!(await yieldNow())) return false;
+    view.setCloud(snap.box, world, colours, context, contextTotal);
     built = { cmp, snapshot: snap, order, slotOf, world };
     onDrawn({ ...view.drawn(), of: `comparison ${cmp.runA.key} ${cmp.runB.key}` });
     return true;
@@ -160,7 +173,7 @@ function bind(view: ViewHandle, onDrawn: (d: DrawnInfo) => void): () => void {
     if (!(await cloud(s))) return;
     const now = appStore.getState();
     slab(now);
-    await pause();
+    await yieldTask();
     arrows(appStore.getState());
     selected(appStore.getState());
   };

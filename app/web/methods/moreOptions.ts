@@ -21,6 +21,8 @@ export interface OrderMethodOptions {
 export interface PmeMethodOptions {
   readonly method: 'pme';
   readonly options: PmeOptions;
+  /** Threads asked for (worker/pmeParallel.ts); undefined = auto. */
+  readonly threads?: number;
 }
 
 /** Whether a method id is one of the image-sum orders. */
@@ -96,6 +98,20 @@ function fftFriendly(v: number): boolean {
   return m === 1;
 }
 
+/** Most PME threads one may ask for (the registry's choices go to 4). */
+export const PME_THREADS_MAX = 64;
+
+/**
+ * A finished PME run's words with the threads that computed (the worker's count, which can be fewer than
+ * asked for without cross-origin isolation): ", threads N" replaces the asked-for count, and is added when
+ * more than one thread computed.
+ */
+export function pmeLabelThreads(label: string, used: number): string {
+  const asked = /, threads \d+/.test(label);
+  const base = label.replace(/, threads \d+/, '');
+  return asked || used > 1 ? `${base}, threads ${used}` : base;
+}
+
 /** Checks the particle-mesh Ewald parameters (tolerance, mesh and order overrides, influence, softening). */
 export function pmeOptionsParse(params: Params, G: number): PmeMethodOptions {
   const tol = numberIn(params['pme.tol'], 'PME tolerance', (v) => v > 0 && v < 1, 'a number between 0 and 1 (exclusive), such as 1e-6');
@@ -110,9 +126,12 @@ export function pmeOptionsParse(params: Params, G: number): PmeMethodOptions {
   if (mesh !== undefined && order !== undefined && mesh < order) throw new RangeError(`mesh points per side: ${mesh} is fewer than the B-spline order ${order}`);
   const influence = (params['pme.influence'] ?? 'optimal').trim();
   if (influence !== 'optimal' && influence !== 'spme') throw new RangeError(`influence function: expected optimal or spme, got "${influence}"`);
+  const threadsText = (params['pme.threads'] ?? 'auto').trim().toLowerCase();
+  const threads = threadsText === 'auto' || threadsText === '' ? undefined : wholeField(threadsText, 'threads', 1, PME_THREADS_MAX);
   return {
     method: 'pme',
     options: { tol, G, influence, softening: softeningParse(params), ...(mesh !== undefined ? { mesh } : {}), ...(order !== undefined ? { order } : {}) },
+    ...(threads !== undefined ? { threads } : {}),
   };
 }
 
@@ -124,7 +143,7 @@ function softText(s: Softening | undefined): string {
 export function moreOptionsKey(m: OrderMethodOptions | PmeMethodOptions): string {
   if (m.method === 'pme') {
     const o = m.options;
-    return `pme(tol=${o.tol},G=${o.G},mesh=${o.mesh ?? 'auto'},p=${o.order ?? 'auto'},inf=${o.influence ?? 'optimal'},soft=${softText(o.softening)})`;
+    return `pme(tol=${o.tol},G=${o.G},mesh=${o.mesh ?? 'auto'},p=${o.order ?? 'auto'},inf=${o.influence ?? 'optimal'},soft=${softText(o.softening)}${m.threads !== undefined ? `,threads=${m.threads}` : ''})`;
   }
   const o = m.options;
   const lambdas = o.lambdas ? Array.from(o.lambdas).join(';') : 'auto';
@@ -136,7 +155,8 @@ export function moreOptionsLabel(m: OrderMethodOptions | PmeMethodOptions, tolTe
   if (m.method === 'pme') {
     const o = m.options;
     const extra = [o.mesh !== undefined ? `mesh ${o.mesh}³` : '', o.order !== undefined ? `p ${o.order}` : '', o.influence === 'spme' ? 'SPME' : '',
-      o.softening?.kind === 'plummer' ? `Plummer ε ${o.softening.eps}` : o.softening?.kind === 'spline' ? `spline h ${o.softening.h}` : ''].filter(Boolean);
+      o.softening?.kind === 'plummer' ? `Plummer ε ${o.softening.eps}` : o.softening?.kind === 'spline' ? `spline h ${o.softening.h}` : '',
+      m.threads !== undefined ? `threads ${m.threads}` : ''].filter(Boolean);
     return `PME tol ${tolText(o.tol ?? 1e-4)}${extra.length ? `, ${extra.join(', ')}` : ''}`;
   }
   const o = m.options;

@@ -221,6 +221,13 @@ export const METHODS: readonly MethodSpec[] = [
         ],
         hint: 'the Green function on the mesh',
       },
+      {
+        key: 'pme.threads',
+        label: 'threads',
+        defaultValue: 'auto',
+        choices: [{ value: 'auto', label: 'auto (up to 4)' }, ...['1', '2', '3', '4'].map((v) => ({ value: v, label: v }))],
+        hint: 'threads sharing the run (helper workers over shared memory; needs a cross-origin isolated page, else one); "auto" uses up to 4 cores from 8192 particles on; results agree to rounding',
+      },
       ...SOFTENING,
     ],
   },

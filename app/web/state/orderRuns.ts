@@ -5,7 +5,7 @@
 import type { Box } from '../../../engine/box';
 import type { ImageSumOrderName } from '../../../engine/orders/imageSumOptions';
 import type { MethodOptions } from '../methods/methodOptions';
-import { isOrderMethod, type OrderMethodId } from '../methods/moreOptions';
+import { isOrderMethod, type OrderMethodId, pmeLabelThreads } from '../methods/moreOptions';
 import type { ComputeClient, Outcome } from '../worker/client';
 import type { MethodForcesPayload, OrderTracePayload } from '../worker/methodRequests';
 import type { RequestBody } from '../worker/protocol';
@@ -49,14 +49,14 @@ export interface RequestBase {
 
 /** The worker request of an order or PME slot (other methods have theirs in pipeline.ts). */
 export function methodRequestMore(opts: MethodOptions, base: RequestBase): RequestBody {
-  if (opts.method === 'pme') return { type: 'pme', ...base, options: opts.options };
+  if (opts.method === 'pme') return { type: 'pme', ...base, options: opts.options, ...(opts.threads !== undefined ? { threads: opts.threads } : {}) };
   if (opts.method !== 'ewald' && opts.method !== 'mesh' && opts.method !== 'file') return { type: 'order', ...base, options: opts.options };
   throw new Error(`no order or PME request for method ${opts.method}`);
 }
 
 /** The finished run of a slot from its worker payload. */
 export function methodRunFrom(sp: SlotPlan, targetsKey: string, p: MethodForcesPayload, workerMs: number): MethodRun {
-  return { key: sp.key, method: sp.method, label: sp.label, targetsKey, acc: p.acc, ewald: null, mesh: null, order: p.order, pme: p.pme, wrapped: p.wrapped, workerMs };
+  return { key: sp.key, method: sp.method, label: p.threads !== undefined ? pmeLabelThreads(sp.label, p.threads) : sp.label, targetsKey, acc: p.acc, ewald: null, mesh: null, order: p.order, pme: p.pme, wrapped: p.wrapped, workerMs };
 }
 
 /**

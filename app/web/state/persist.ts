@@ -67,20 +67,55 @@ interface Kept {
   readonly data: Blob;
 }
 
+/** Bytes copied into one Blob part per task while a snapshot is kept (a few ms of copying each). */
+const BLOB_PART_BYTES = 2 * 1024 * 1024;
+
+/** Ends the current task and resumes in a new one. */
+function yieldTask(): Promise<void> {
+  return new Promise((r) => setTimeout(r, 0));
+}
+
+let saving = 0;
+
+/**
+ * The arrays as one Blob, copied in parts of BLOB_PART_BYTES, one task each (a Blob made of Blobs
+ * references them without copying); null when a newer save started meanwhile.
+ */
+async function blobSliced(arrays: readonly Float64Array[], gen: number): Promise<Blob | null> {
+  const parts: Blob[] = [];
+  for (const a of arrays) {
+    const step = BLOB_PART_BYTES / 8;
+    for (let b = 0; b < a.length; b += step) {
+      if (parts.length > 0) await yieldTask();
+      if (gen !== saving) return null;
+      parts.push(new Blob([a.subarray(b, Math.min(a.length, b + step)) as BlobPart]));
+    }
+  }
+  return new Blob(parts);
+}
+
 /**
  * Keeps a file snapshot for the next visit (the demo is remade from its seed, so it clears the slot).
  * The arrays go into a Blob first: structured-cloning large typed arrays into IndexedDB would hold the
- * page's main thread for a noticeable time; a Blob is copied once and stored by reference.
+ * page's main thread for a noticeable time; a Blob is stored by reference, and it is copied in parts of
+ * a few ms each (10⁶ particles are 32–64 MB), so that keeping a snapshot makes no long task.
  */
 export async function snapshotSave(s: Snapshot | null): Promise<void> {
+  const gen = ++saving;
   try {
     let kept: Kept | null = null;
     if (s && s.kind === 'file' && snapshotBytes(s) <= SNAPSHOT_STORE_LIMIT) {
       const { positions, masses, accelerations, ids, ...meta } = s;
       const parts = [positions, masses, accelerations ?? new Float64Array(0), ids ?? new Float64Array(0)];
-      kept = { meta, lengths: parts.map((p) => p.length) as unknown as Kept['lengths'], data: new Blob(parts as BlobPart[]) };
+      const data = await blobSliced(parts, gen);
+      if (!data) return;
+      kept = { meta, lengths: parts.map((p) => p.length) as unknown as Kept['lengths'], data };
     }
     const db = await dbOpen();
+    if (gen !== saving) {
+      db.close();
+      return;
+    }
     const tx = db.transaction(STORE, 'readwrite');
     if (kept) tx.objectStore(STORE).put(kept, LAST);
     else tx.objectStore(STORE).delete(LAST);
@@ -104,12 +139,12 @@ export async function snapshotRestore(): Promise<Snapshot | null> {
     db.close();
     const k = value as Kept | undefined;
     if (!k || !k.meta || k.meta.kind !== 'file' || !(k.data instanceof Blob) || !Array.isArray(k.lengths)) return null;
-    const all = new Float64Array(await k.data.arrayBuffer());
     const [np, nm, na, ni] = k.lengths;
-    if (all.length !== np + nm + na + ni || np !== 3 * nm || (na !== 0 && na !== np) || (ni !== 0 && ni !== nm)) return null;
+    if (k.data.size !== 8 * (np + nm + na + ni) || np !== 3 * nm || (na !== 0 && na !== np) || (ni !== 0 && ni !== nm)) return null;
+    // each array read by itself from its part of the Blob (no copy of the whole on the page's thread)
     let o = 0;
-    const take = (len: number) => all.slice(o, (o += len));
-    const positions = take(np), masses = take(nm), acc = take(na), ids = take(ni);
+    const take = async (len: number) => new Float64Array(await k.data.slice(8 * o, 8 * (o += len)).arrayBuffer());
+    const positions = await take(np), masses = await take(nm), acc = await take(na), ids = await take(ni);
     return {
       ...k.meta,
       positions,

@@ -48,6 +48,41 @@ export function drawOrder(n: number, seed = 12345): Uint32Array {
   return p;
 }
 
+/** A seeded random choice of `m` of the rows 0..n−1, made in steps (see shuffleStart, shuffleSteps). */
+export interface Shuffle {
+  /** After the last step, p[0..m) are the chosen rows in random order (p is a permutation throughout). */
+  readonly p: Uint32Array;
+  readonly m: number;
+  /** Rows chosen so far, and the generator's state. */
+  i: number;
+  s: number;
+}
+
+/** Starts a partial shuffle choosing m ≤ n rows (a prefix of the draw order, made in steps across tasks). */
+export function shuffleStart(n: number, m: number, seed = 12345): Shuffle {
+  const p = new Uint32Array(n);
+  for (let i = 0; i < n; i++) p[i] = i;
+  return { p, m: Math.max(0, Math.min(n, m)), i: 0, s: seed >>> 0 };
+}
+
+/** Chooses up to `steps` more rows (front-to-back Fisher–Yates); true when all m are chosen. */
+export function shuffleSteps(sh: Shuffle, steps: number): boolean {
+  const { p, m } = sh;
+  const n = p.length;
+  const end = Math.min(m, sh.i + steps);
+  let s = sh.s;
+  for (let i = sh.i; i < end; i++) {
+    s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
+    const j = i + (s % (n - i));
+    const t = p[i];
+    p[i] = p[j];
+    p[j] = t;
+  }
+  sh.i = end;
+  sh.s = s;
+  return end >= m;
+}
+
 export interface Slab {
   /** 0, 1, 2 for x, y, z; −1 for no slab. */
   readonly axis: number;

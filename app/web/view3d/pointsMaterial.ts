@@ -1,4 +1,7 @@
-/** Round points with per-vertex colour, a size in pixels and the slab filter, as a small shader. */
+/**
+ * Round points with per-vertex colour (or one colour for all, which spares a colour buffer), a size in
+ * pixels and the slab filter, as a small shader.
+ */
 import * as THREE from 'three';
 
 const vertex = /* glsl */ `
@@ -7,9 +10,14 @@ uniform float size;
 uniform int slabAxis;
 uniform float slabMin;
 uniform float slabMax;
+uniform vec3 tint;
 varying vec3 vColor;
 void main() {
+#ifdef TINT
+  vColor = tint;
+#else
   vColor = color;
+#endif
   if (slabAxis >= 0) {
     float v = slabAxis == 0 ? position.x : (slabAxis == 1 ? position.y : position.z);
     bool inside = slabMin <= slabMax ? (v >= slabMin && v <= slabMax) : (v >= slabMin || v <= slabMax);
@@ -33,9 +41,13 @@ void main() {
 }
 `;
 
-/** A material for THREE.Points whose geometry has `position` and `color` attributes. */
-export function pointsMaterial(size: number, opacity = 1, ring = false): THREE.ShaderMaterial {
+/**
+ * A material for THREE.Points whose geometry has `position` and `color` attributes; with `tint` (rgb in
+ * 0…1) every point has that colour and the geometry needs no `color`.
+ */
+export function pointsMaterial(size: number, opacity = 1, ring = false, tint: readonly [number, number, number] | null = null): THREE.ShaderMaterial {
   return new THREE.ShaderMaterial({
+    defines: tint ? { TINT: 1 } : {},
     uniforms: {
       size: { value: size },
       opacity: { value: opacity },
@@ -43,6 +55,7 @@ export function pointsMaterial(size: number, opacity = 1, ring = false): THREE.S
       slabAxis: { value: -1 },
       slabMin: { value: 0 },
       slabMax: { value: 0 },
+      tint: { value: new THREE.Vector3(...(tint ?? [1, 1, 1])) },
     },
     vertexShader: vertex,
     fragmentShader: fragment,

@@ -2,7 +2,9 @@
  * The 3D view: the box outline, particles as points coloured by relative error (targets) or grey
  * (other particles), residual arrows as line segments, a picked-particle ring, orbit/zoom/pan, a slab
  * filter and screen-space picking. Renders on demand only (after a change or while the view moves).
- * While the camera moves, very large clouds draw a random prefix of their points.
+ * While the camera moves, very large clouds draw a random prefix of their points. Clouds are held in
+ * pieces of PIECE_POINTS points, each its own draw call, handed to the GPU a few per frame, so that a
+ * 10⁶-point cloud is never uploaded in one long task.
  */
 import * as THREE from 'three';
 import { OrbitControls } from 'three/examples/jsm/controls/OrbitControls.js';
@@ -23,8 +25,15 @@ export const MOVING_MIN_POINTS = 20_000;
 /**
  * Most points drawn in a still frame when WebGL is rendered in software (SwiftShader, llvmpipe): a
  * random prefix of the cloud stands for the rest, and the view says so. Hardware draws everything.
+ * Without a GPU the page's thread waits for each frame's pixels (the compositor reads the canvas back),
+ * about 0.7 µs per point on the project machine under load: 300 000 points held it ~230 ms a frame,
+ * 100 000 keep a frame near the 100 ms a user does not notice as a stall.
  */
-export const SOFTWARE_STILL_POINTS = 300_000;
+export const SOFTWARE_STILL_POINTS = 100_000;
+
+/** Points per piece of a cloud (one buffer and draw call each), and new pieces uploaded per frame. */
+export const PIECE_POINTS = 65_536;
+const UPLOADS_PER_FRAME = 2;
 
 /** Whether the context renders in software (by the renderer string, where the browser tells it). */
 function softwareRendered(gl: WebGLRenderingContext | WebGL2RenderingContext): boolean {
@@ -46,9 +55,11 @@ export const VIEW_COLOURS = {
 };
 
 export interface ViewHandle {
-  /** Box and particles: targets (world xyz, rgb) in draw order, and other particles (world xyz). */
-  setCloud(box: Box, targets: Float32Array | null, colours: Float32Array | null, context: Float32Array | null): void;
-  setColours(colours: Float32Array): void;
+  /**
+   * Box and particles: targets (world xyz, rgb) in draw order, and other particles (world xyz), which
+   * may be a random part of `contextTotal` (the count the view says it stands for; default all given).
+   */
+  setCloud(box: Box, targets: Float32Array | null, colours: Float32Array | null, context: Float32Array | null, contextTotal?: number): void;
   setArrows(segments: Float32Array | null): void;
   setSlab(slab: Slab): void;
   setContextVisible(on: boolean): void;
@@ -60,10 +71,20 @@ export interface ViewHandle {
   pick(x: number, y: number): number;
   /** Points drawn in a still frame and points held (they differ only under software rendering). */
   drawn(): { shown: number; total: number; software: boolean };
+  /** Most points a still frame draws (Infinity unless WebGL is rendered in software): more need not be built. */
+  capacity(): number;
   resize(): void;
   render(): void;
   readonly canvas: HTMLCanvasElement;
   dispose(): void;
+}
+
+/** A piece of a cloud: its own buffers and draw call; `uploaded` once it was drawn (handed to the GPU). */
+interface Piece {
+  readonly points: THREE.Points;
+  readonly geom: THREE.BufferGeometry;
+  readonly count: number;
+  uploaded: boolean;
 }
 
 function boxOutline(box: Box): THREE.LineSegments {
@@ -117,10 +138,38 @@ export function viewCreate(host: HTMLElement): ViewHandle {
   let slabLines: THREE.LineSegments | null = null;
   let slab: Slab = NO_SLAB;
   let targetWorld: Float32Array | null = null;
-  const targetGeom = new THREE.BufferGeometry();
-  const targetPoints = new THREE.Points(targetGeom, pointsMaterial(3.2));
-  const contextGeom = new THREE.BufferGeometry();
-  const contextPoints = new THREE.Points(contextGeom, pointsMaterial(1.6, 0.45));
+  const targetMaterial = pointsMaterial(3.2);
+  const contextMaterial = pointsMaterial(1.6, 0.45, false, VIEW_COLOURS.context);
+  const targetPoints = new THREE.Group();
+  const contextPoints = new THREE.Group();
+  let targetPieces: Piece[] = [];
+  let contextPieces: Piece[] = [];
+  let contextHeld = 0;
+  const piecesMake = (group: THREE.Group, material: THREE.ShaderMaterial, world: Float32Array | null, colours: Float32Array | null): Piece[] => {
+    const out: Piece[] = [];
+    const n = world ? world.length / 3 : 0;
+    for (let b = 0; b < n; b += PIECE_POINTS) {
+      const e = Math.min(n, b + PIECE_POINTS);
+      const geom = new THREE.BufferGeometry();
+      geom.setAttribute('position', new THREE.BufferAttribute(world!.subarray(3 * b, 3 * e), 3));
+      if (colours) geom.setAttribute('color', new THREE.BufferAttribute(colours.subarray(3 * b, 3 * e), 3));
+      // a sphere around the unit cube (world space): spares three a pass over the piece for sorting
+      geom.boundingSphere = new THREE.Sphere(new THREE.Vector3(0.5, 0.5, 0.5), 0.87);
+      const points = new THREE.Points(geom, material);
+      points.frustumCulled = false;
+      points.visible = false;
+      group.add(points);
+      out.push({ points, geom, count: e - b, uploaded: false });
+    }
+    return out;
+  };
+  const piecesDrop = (group: THREE.Group, pieces: Piece[]) => {
+    for (const p of pieces) {
+      group.remove(p.points);
+      p.geom.dispose();
+    }
+  };
+  const countOf = (pieces: Piece[]) => pieces.reduce((a, p) => a + p.count, 0);
   const arrowGeom = new THREE.BufferGeometry();
   const arrows = new THREE.LineSegments(arrowGeom, new THREE.LineBasicMaterial({ color: VIEW_COLOURS.arrow }));
   const ringGeom = new THREE.BufferGeometry();
@@ -128,8 +177,19 @@ export function viewCreate(host: HTMLElement): ViewHandle {
   ringGeom.setAttribute('color', new THREE.Float32BufferAttribute([...VIEW_COLOURS.ring], 3));
   const ring = new THREE.Points(ringGeom, pointsMaterial(16, 1, true));
   ring.visible = false;
-  contextPoints.frustumCulled = targetPoints.frustumCulled = arrows.frustumCulled = ring.frustumCulled = false;
-  scene.add(contextPoints, targetPoints, arrows, ring);
+  arrows.frustumCulled = ring.frustumCulled = false;
+  // both point programs are compiled in the first frame (drawing nothing), not in the first frame of a
+  // large cloud: software WebGL compiles a program at its first draw, and the page's thread waits for it
+  const warm = [targetMaterial, contextMaterial].map((m) => {
+    const g = new THREE.BufferGeometry();
+    g.setAttribute('position', new THREE.Float32BufferAttribute([0, 0, 0], 3));
+    g.setAttribute('color', new THREE.Float32BufferAttribute([0, 0, 0], 3));
+    g.setDrawRange(0, 0);
+    const p = new THREE.Points(g, m);
+    p.frustumCulled = false;
+    return p;
+  });
+  scene.add(...warm, contextPoints, targetPoints, arrows, ring);
 
   let frame = 0;
   let moving = false;
@@ -146,18 +206,28 @@ export function viewCreate(host: HTMLElement): ViewHandle {
       else if (dt < MOVING_FRAME_MS / 2) budget = Math.min(4 * MOVING_POINTS, budget * 2);
     }
     lastFrame = moving ? now : 0;
-    const n = targetGeom.getAttribute('position')?.count ?? 0;
-    const m = contextGeom.getAttribute('position')?.count ?? 0;
-    // targets first: the context gets what the budget leaves
-    const cap = moving ? budget : still;
-    const nt = Math.min(n, cap);
-    targetGeom.setDrawRange(0, nt);
-    contextGeom.setDrawRange(0, Math.max(0, Math.min(m, cap - nt)));
+    // targets first: the context gets what the budget leaves; pieces not yet on the GPU go up a few a frame
+    let left = moving ? Math.min(budget, still) : still;
+    let uploads = UPLOADS_PER_FRAME;
+    let more = false;
+    for (const p of [...targetPieces, ...contextPieces]) {
+      const take = Math.max(0, Math.min(p.count, left));
+      left -= take;
+      if (take > 0 && !p.uploaded) {
+        if (uploads > 0) {
+          uploads--;
+          p.uploaded = true;
+        } else more = true;
+      }
+      p.geom.setDrawRange(0, take);
+      p.points.visible = take > 0 && p.uploaded;
+    }
     renderer.render(scene, camera);
+    if (more) request();
   };
-  const request = () => {
+  function request() {
     if (!frame) frame = requestAnimationFrame(render);
-  };
+  }
   controls.addEventListener('change', request);
   controls.addEventListener('start', () => {
     moving = true;
@@ -181,8 +251,8 @@ export function viewCreate(host: HTMLElement): ViewHandle {
   observer?.observe(host);
 
   const applySlab = () => {
-    for (const p of [targetPoints, contextPoints]) {
-      const u = (p.material as THREE.ShaderMaterial).uniforms;
+    for (const m of [targetMaterial, contextMaterial]) {
+      const u = m.uniforms;
       u.slabAxis.value = slab.axis;
       u.slabMin.value = slab.min;
       u.slabMax.value = slab.max;
@@ -202,7 +272,7 @@ export function viewCreate(host: HTMLElement): ViewHandle {
   let flight = 0;
   const handle: ViewHandle = {
     canvas,
-    setCloud(b, targets, colours, context) {
+    setCloud(b, targets, colours, context, contextTotal) {
       const newBox = !box || b.lx !== box.lx || b.ly !== box.ly || b.lz !== box.lz;
       box = b;
       if (outline) {
@@ -212,27 +282,16 @@ export function viewCreate(host: HTMLElement): ViewHandle {
       outline = boxOutline(b);
       scene.add(outline);
       targetWorld = targets;
-      targetGeom.setAttribute('position', new THREE.BufferAttribute(targets ?? new Float32Array(0), 3));
-      targetGeom.setAttribute('color', new THREE.BufferAttribute(colours ?? new Float32Array(targets ? targets.length : 0), 3));
-      const cx = context ?? new Float32Array(0);
-      contextGeom.setAttribute('position', new THREE.BufferAttribute(cx, 3));
-      const grey = new Float32Array(cx.length);
-      const [gr, gg, gb] = VIEW_COLOURS.context;
-      for (let i = 0; i < grey.length; i += 3) {
-        grey[i] = gr;
-        grey[i + 1] = gg;
-        grey[i + 2] = gb;
-      }
-      contextGeom.setAttribute('color', new THREE.BufferAttribute(grey, 3));
+      piecesDrop(targetPoints, targetPieces);
+      piecesDrop(contextPoints, contextPieces);
+      targetPieces = piecesMake(targetPoints, targetMaterial, targets, colours ?? new Float32Array(targets ? targets.length : 0));
+      contextPieces = piecesMake(contextPoints, contextMaterial, context, null);
+      contextHeld = Math.max(countOf(contextPieces), contextTotal ?? 0);
       // smaller points for dense clouds
-      const n = (targets?.length ?? 0) / 3 + cx.length / 3;
-      (targetPoints.material as THREE.ShaderMaterial).uniforms.size.value = n > 200_000 ? 1.5 : n > 20_000 ? 2.2 : 3.2;
-      (contextPoints.material as THREE.ShaderMaterial).uniforms.size.value = n > 200_000 ? 1 : 1.6;
+      const n = (targets?.length ?? 0) / 3 + contextHeld;
+      targetMaterial.uniforms.size.value = n > 200_000 ? 1.5 : n > 20_000 ? 2.2 : 3.2;
+      contextMaterial.uniforms.size.value = n > 200_000 ? 1 : 1.6;
       if (newBox) cameraHome();
-      request();
-    },
-    setColours(colours) {
-      targetGeom.setAttribute('color', new THREE.BufferAttribute(colours, 3));
       request();
     },
     setArrows(segments) {
@@ -306,17 +365,23 @@ export function viewCreate(host: HTMLElement): ViewHandle {
     resize,
     render,
     drawn() {
-      const n = targetGeom.getAttribute('position')?.count ?? 0;
-      const m = contextGeom.getAttribute('position')?.count ?? 0;
+      const n = countOf(targetPieces);
+      const m = countOf(contextPieces);
       const nt = Math.min(n, still);
-      return { shown: nt + Math.max(0, Math.min(m, still - nt)), total: n + m, software };
+      return { shown: nt + Math.max(0, Math.min(m, still - nt)), total: n + contextHeld, software };
+    },
+    capacity() {
+      return still;
     },
     dispose() {
       observer?.disconnect();
       cancelAnimationFrame(frame);
       cancelAnimationFrame(flight);
       controls.dispose();
-      for (const g of [targetGeom, contextGeom, arrowGeom, ringGeom]) g.dispose();
+      piecesDrop(targetPoints, targetPieces);
+      piecesDrop(contextPoints, contextPieces);
+      for (const g of [arrowGeom, ringGeom, ...warm.map((w) => w.geometry)]) g.dispose();
+      for (const m of [targetMaterial, contextMaterial]) m.dispose();
       outline?.geometry.dispose();
       slabLines?.geometry.dispose();
       renderer.dispose();

@@ -8,8 +8,9 @@ import type { Progress } from '../../../engine/ewald/ewald';
 import { extrapolateToZero } from '../../../engine/orders/extrapolation';
 import type { ImageSumOptions } from '../../../engine/orders/imageSumOptions';
 import { type ImageSumParams, imageSumFinalize, imageSumPartialAlloc, imageSumSetup, imageSumTargetsChunk } from '../../../engine/orders/imageSumOrder';
-import { pmeForces } from '../../../engine/pme/pme';
+import { pmeForces, type PmeResult } from '../../../engine/pme/pme';
 import type { PmeOptions, PmeParams } from '../../../engine/pme/pmeParams';
+import { pmeForcesParallel, pmeThreadsChoose, pmeThreadsEnvHere } from './pmeParallel';
 
 interface Particles {
   /** Flat xyz, length units. */
@@ -41,6 +42,8 @@ export interface PmeRequest extends Particles {
   readonly type: 'pme';
   readonly targets: Int32Array | null;
   readonly options: PmeOptions;
+  /** Threads asked for (this worker and helpers, pmeParallel.ts); undefined = auto. */
+  readonly threads?: number;
 }
 
 export type MethodRequest = OrderRequest | OrderTraceRequest | PmeRequest;
@@ -57,6 +60,8 @@ export interface MethodForcesPayload {
   readonly pme: PmeParams | null;
   /** PME: the a-posteriori predicted rms relative error over all particles; else null. */
   readonly predictedRmsRelative: number | null;
+  /** PME: threads that computed (the compute worker and its helpers); absent otherwise. */
+  readonly threads?: number;
 }
 
 export interface OrderTracePayload {
@@ -127,9 +132,8 @@ export function orderTraceRun(r: OrderTraceRequest, progress: Progress): OrderTr
   return { kind: 'orderTrace', targets: r.targets, shell: res.partial.shell, partial, ewald: res.ewald, limit: res.limit, dipole: res.dipole, params: res.params };
 }
 
-/** PME for every particle, then the targets' rows. */
-export function pmeRun(r: PmeRequest, progress: Progress): MethodForcesPayload {
-  const res = pmeForces(r.positions, r.masses, r.box, r.options, progress);
+/** The payload of a PME run: the targets' rows of its all-particle result. */
+function pmePayload(r: PmeRequest, res: PmeResult, threads: number): MethodForcesPayload {
   const n = r.masses.length;
   const targets = r.targets ?? Int32Array.from({ length: n }, (_, i) => i);
   let acc = res.acc;
@@ -137,17 +141,30 @@ export function pmeRun(r: PmeRequest, progress: Progress): MethodForcesPayload {
     acc = new Float64Array(3 * targets.length);
     for (let t = 0; t < targets.length; t++) for (let d = 0; d < 3; d++) acc[3 * t + d] = res.acc[3 * targets[t] + d];
   }
-  return { kind: 'methodForces', method: 'pme', targets, acc, wrapped: res.wrapped, order: null, pme: res.params, predictedRmsRelative: res.predictedRmsRelativeError };
+  return { kind: 'methodForces', method: 'pme', targets, acc, wrapped: res.wrapped, order: null, pme: res.params, predictedRmsRelative: res.predictedRmsRelativeError, threads };
 }
 
-/** Runs one of this file's requests to its payload. */
-export function methodRequestRun(r: MethodRequest, progress: Progress): MethodPayload {
+/** PME for every particle on this thread, then the targets' rows. */
+export function pmeRun(r: PmeRequest, progress: Progress): MethodForcesPayload {
+  return pmePayload(r, pmeForces(r.positions, r.masses, r.box, r.options, progress), 1);
+}
+
+/** PME for every particle, on helper workers too where shared memory allows (pmeParallel.ts), then the targets' rows. */
+export async function pmeRunThreads(r: PmeRequest, progress: Progress): Promise<MethodForcesPayload> {
+  const threads = pmeThreadsChoose(r.threads, r.masses.length, pmeThreadsEnvHere());
+  if (threads <= 1) return pmeRun(r, progress);
+  const res = await pmeForcesParallel(r.positions, r.masses, r.box, r.options, threads, progress);
+  return pmePayload(r, res, res.threadsUsed);
+}
+
+/** Runs one of this file's requests to its payload (PME asynchronously: it waits for its helpers). */
+export function methodRequestRun(r: MethodRequest, progress: Progress): MethodPayload | Promise<MethodPayload> {
   switch (r.type) {
     case 'order':
       return orderRun(r, progress);
     case 'orderTrace':
       return orderTraceRun(r, progress);
     case 'pme':
-      return pmeRun(r, progress);
+      return pmeRunThreads(r, progress);
   }
 }
