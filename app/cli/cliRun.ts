@@ -7,11 +7,19 @@ import { SnapshotFormatError } from '../../engine/formats/snapshot';
 import { version } from '../../package.json';
 import { CliError, UsageError, oneLine } from './cliErrors';
 import type { CliIo } from './cliIo';
-import { checkRun } from './checkCommand';
-import { convergeRun } from './convergeCommand';
-import { demoRun } from './demoCommand';
-import { forcesRun } from './forcesCommand';
-import { checkHelp, convergeHelp, demoHelp, forcesHelp, mainHelp } from './help';
+
+type HelpModule = typeof import('./help');
+
+/**
+ * Each command's module (and the help text, which names every command's options) is loaded by dynamic
+ * import() so that the bundle split by esbuild parses only what the chosen command needs at start-up.
+ * The help module is loaded up front only when the arguments ask for help (`--help` is an exact flag).
+ */
+async function helpFor(rest: readonly string[], pick: (h: HelpModule) => () => string): Promise<() => string> {
+  if (!rest.includes('--help')) return () => 'see torusgrav --help\n';
+  const help = await import('./help');
+  return pick(help);
+}
 
 /** Runs the command line `argv` (without node and the script); resolves to the exit code. */
 export async function cliRun(argv: readonly string[], io: CliIo): Promise<number> {
@@ -19,26 +27,36 @@ export async function cliRun(argv: readonly string[], io: CliIo): Promise<number
   try {
     switch (command) {
       case undefined:
-        io.stderr(mainHelp(version));
+        io.stderr((await import('./help')).mainHelp(version));
         return 2;
       case '--help':
       case '-h':
-        io.stdout(mainHelp(version));
+        io.stdout((await import('./help')).mainHelp(version));
         return 0;
       case '--version':
         io.stdout(`torusgrav ${version}\n`);
         return 0;
-      case 'help':
+      case 'help': {
+        const { checkHelp, convergeHelp, demoHelp, forcesHelp, mainHelp } = await import('./help');
         io.stdout(rest[0] === 'forces' ? forcesHelp() : rest[0] === 'demo' ? demoHelp() : rest[0] === 'converge' ? convergeHelp() : rest[0] === 'check' ? checkHelp() : mainHelp(version));
         return 0;
-      case 'forces':
-        return await forcesRun(rest, io, forcesHelp);
-      case 'check':
-        return await checkRun(rest, io, checkHelp);
-      case 'converge':
-        return await convergeRun(rest, io, convergeHelp);
-      case 'demo':
-        return await demoRun(rest, io, demoHelp);
+      }
+      case 'forces': {
+        const [{ forcesRun }, help] = await Promise.all([import('./forcesCommand'), helpFor(rest, (h) => h.forcesHelp)]);
+        return await forcesRun(rest, io, help);
+      }
+      case 'check': {
+        const [{ checkRun }, help] = await Promise.all([import('./checkCommand'), helpFor(rest, (h) => h.checkHelp)]);
+        return await checkRun(rest, io, help);
+      }
+      case 'converge': {
+        const [{ convergeRun }, help] = await Promise.all([import('./convergeCommand'), helpFor(rest, (h) => h.convergeHelp)]);
+        return await convergeRun(rest, io, help);
+      }
+      case 'demo': {
+        const [{ demoRun }, help] = await Promise.all([import('./demoCommand'), helpFor(rest, (h) => h.demoHelp)]);
+        return await demoRun(rest, io, help);
+      }
       default:
         throw new UsageError(`unknown command ${JSON.stringify(command)}; commands are forces, converge, check and demo`);
     }

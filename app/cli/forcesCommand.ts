@@ -14,8 +14,6 @@ import { outputProblem, outputWriteAtomic } from './atomicOutput';
 import { CliError, UsageError } from './cliErrors';
 import type { CliIo } from './cliIo';
 import { engineErrorExplain, outsideWarning, targetIds } from './engineErrors';
-import { forcesDirectRun } from './forcesDirect';
-import { forcesPmeRun } from './forcesPme';
 import { FORCES_COMMAND, forcesSettings } from './forcesOptions';
 import { ewaldForcesThreads, ewaldThreadsWarm } from './parallelEwald';
 import { progressLine } from './progress';
@@ -85,10 +83,11 @@ export async function forcesRun(argv: readonly string[], io: CliIo, helpText: ()
     limitAdvice: 'raise it with --max-size SIZE if the machine has the memory, or read every K-th particle with --every K',
   });
   const box = settings.box ?? snapshot.box!;
-  if (settings.direct) return forcesDirectRun(settings, settings.direct, snapshot, box, io, t0);
+  // the other methods' code is loaded only when asked for (start-up of the default path)
+  if (settings.direct) return (await import('./forcesDirect')).forcesDirectRun(settings, settings.direct, snapshot, box, io, t0);
   const softening = settings.softeningFromColumn ? softeningFromColumn(snapshot, settings.softeningFromColumn, file) : settings.softening;
   const outside = snapshotValidate(snapshot, file, box, { softened: softening.kind !== 'none', coincident: false });
-  if (settings.method === 'pme') return forcesPmeRun(settings, snapshot, box, softening, outside, io, t0);
+  if (settings.method === 'pme') return (await import('./forcesPme')).forcesPmeRun(settings, snapshot, box, softening, outside, io, t0);
   const n = snapshot.count;
   const targets = targetsResolve(settings.targets, n);
   const all = targets.length === n && settings.targets.kind === 'all';

@@ -64,7 +64,8 @@ function latin1(b: Uint8Array, begin: number, end: number): string {
 }
 
 const WINDOW = 1 << 20;
-const utf8 = new TextDecoder('utf-8');
+/** Made on first use: most files never leave the fast paths, and a decoder costs time to set up. */
+let utf8: TextDecoder | null = null;
 
 /**
  * The text of b[begin..end) (already checked to be ASCII digits, signs, point, e). Decodes the file a
@@ -74,6 +75,7 @@ function slowText(b: Uint8Array, begin: number, end: number, st: CellState): str
   if (begin < st.textBegin || end > st.textEnd) {
     st.textBegin = begin;
     st.textEnd = Math.min(b.length, Math.max(end, begin + WINDOW));
+    utf8 ??= new TextDecoder('utf-8');
     st.text = utf8.decode(b.subarray(st.textBegin, st.textEnd));
     // Equal lengths ⇔ every byte decoded to one UTF-16 unit (any multi-byte or invalid run shortens it).
     st.textAscii = st.text.length === st.textEnd - st.textBegin;
@@ -98,43 +100,54 @@ export function cellParse(b: Uint8Array, i: number, end: number, st: CellState, 
     i++;
   }
   // Significant digits: the first 15 in `mant`, the next up to 4 in `tail` (M = mant·10^tailDigits + tail).
+  // Zeros after a significant digit wait in `zeros` and enter M only when a nonzero digit follows, so
+  // trailing zeros (0.25000000000000000000) scale the exponent instead of counting as digits.
   let mant = 0;
   let tail = 0;
   let tailDigits = 0;
   let significant = 0;
+  let zeros = 0;
   let digits = 0;
   let dexp = 0;
-  while (i < end) {
-    const d = b[i] - ZERO;
-    if (d < 0 || d > 9) break;
+  let fraction = false;
+  for (; i < end; i++) {
+    const c = b[i];
+    const d = c - ZERO;
+    if (d < 0 || d > 9) {
+      if (c === DOT && !fraction) {
+        fraction = true;
+        continue;
+      }
+      break;
+    }
     digits++;
-    if (significant > 0 || d !== 0) {
+    if (fraction) dexp--;
+    if (d === 0) {
+      if (significant > 0) zeros++;
+      continue;
+    }
+    // A nonzero digit: first the zeros it follows, then the digit itself.
+    while (zeros > 0 && significant < 15) {
+      mant *= 10;
       significant++;
-      if (significant <= 15) mant = mant * 10 + d;
-      else if (significant <= 19) {
-        tail = tail * 10 + d;
+      zeros--;
+    }
+    if (significant < 15 && zeros === 0) {
+      mant = mant * 10 + d;
+      significant++;
+      continue;
+    }
+    significant += zeros + 1;
+    if (significant <= 19) {
+      while (zeros > 0) {
+        tail *= 10;
         tailDigits++;
+        zeros--;
       }
+      tail = tail * 10 + d;
+      tailDigits++;
     }
-    i++;
-  }
-  if (i < end && b[i] === DOT) {
-    i++;
-    while (i < end) {
-      const d = b[i] - ZERO;
-      if (d < 0 || d > 9) break;
-      digits++;
-      dexp--;
-      if (significant > 0 || d !== 0) {
-        significant++;
-        if (significant <= 15) mant = mant * 10 + d;
-        else if (significant <= 19) {
-          tail = tail * 10 + d;
-          tailDigits++;
-        }
-      }
-      i++;
-    }
+    zeros = 0;
   }
   let ok = digits > 0;
   let e = 0;
@@ -179,7 +192,7 @@ export function cellParse(b: Uint8Array, i: number, end: number, st: CellState, 
   }
   st.end = i;
   st.error = CELL_OK;
-  const exp10 = dexp + e;
+  const exp10 = dexp + e + zeros; // zeros: trailing ones, not in M
   let v: number;
   if (mant === 0) v = 0;
   else if (significant <= 15 && exp10 >= -22 && exp10 <= 22) v = exp10 < 0 ? mant / POW10[-exp10] : mant * POW10[exp10];

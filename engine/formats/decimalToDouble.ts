@@ -16,91 +16,76 @@ const POW10 = [1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e1
 const SPLIT = 134217729; // 2^27 + 1
 const MARGIN = 2 ** -90;
 
-// Results of the helpers below (two numbers each; module scratch so that nothing is allocated).
-let rh = 0;
-let rl = 0;
-
-/** rh + rl = a·b exactly (Dekker). */
-function twoProduct(a: number, b: number): void {
-  const p = a * b;
-  let c = SPLIT * a;
-  const ah = c - (c - a);
-  const al = a - ah;
-  c = SPLIT * b;
-  const bh = c - (c - b);
-  const bl = b - bh;
-  rh = p;
-  rl = ah * bh - p + ah * bl + al * bh + al * bl;
-}
-
-/** rh + rl = a + b exactly, rh = fl(a + b) (Knuth's TwoSum). */
-function twoSum(a: number, b: number): void {
-  const s = a + b;
-  const bb = s - a;
-  rh = s;
-  rl = a - (s - bb) + (b - bb);
-}
-
-/** rh + rl = a + b exactly for |a| ≥ |b| (Dekker's FastTwoSum). */
-function fastTwoSum(a: number, b: number): void {
-  const s = a + b;
-  rh = s;
-  rl = b - (s - a);
-}
-
-const view = new DataView(new ArrayBuffer(8));
-
-/** Half the gap from h to the next double in the direction of `toward` (h normal, 2^-969 < |h| < 2^1023). */
-function halfGap(h: number, toward: number): number {
-  view.setFloat64(0, h);
-  const high = view.getUint32(0);
-  const exponent = (high >>> 20) & 0x7ff;
-  const powerOfTwo = (high & 0xfffff) === 0 && view.getUint32(4) === 0;
-  view.setUint32(0, (exponent - 52) << 20);
-  view.setUint32(4, 0);
-  const ulp = view.getFloat64(0);
-  // Below a power of two (moving toward zero) the doubles are twice as dense.
-  const shrinking = toward !== 0 && (toward < 0) !== (h < 0);
-  return powerOfTwo && shrinking ? ulp / 4 : ulp / 2;
-}
-
 /**
  * The double nearest to (hi·10^r + lo)·10^exp10 for integers 0 ≤ hi < 10^15, 0 ≤ r ≤ 4, 0 ≤ lo < 10^r;
  * NaN when it cannot decide cheaply (then use Number() on the text).
+ *
+ * The exact products (Dekker's twoProduct) and sums (TwoSum, FastTwoSum) are written out inline with
+ * local variables: this runs once per number of a file, mostly before the JIT has optimised it.
  */
 export function decimalToDouble(hi: number, lo: number, r: number, exp10: number): number {
   // Magnitude guard: M has at most 19 digits, so M·10^exp10 lies in [10^exp10, 10^(exp10+19)).
   if (exp10 < -250 || exp10 + 19 > 300) return NaN;
-  twoProduct(hi, POW10[r]);
-  const m2 = rl;
-  twoSum(rh, lo);
-  // All terms are integers below 2^64, so the low parts are small integers and their sum is exact.
-  fastTwoSum(rh, rl + m2);
-  let h = rh;
-  let l = rl;
+  // M = hi·10^r + lo as h + l. hi < 2^50 and 10^r ≤ 10^4 < 2^14: split hi = hh + hl with hh a multiple
+  // of 2^26 so that both partial products are exact (twoProduct with the splitting done by hand).
+  const pr = POW10[r];
+  let p = hi * pr;
+  let c = SPLIT * hi;
+  const ah = c - (c - hi);
+  const al = hi - ah;
+  let e = ah * pr - p + al * pr; // pr < 2^27 needs no split: ah·pr and al·pr are exact
+  // TwoSum(p, lo), then FastTwoSum(s, t + e): all terms are integers below 2^64, so the low parts are
+  // small integers and their sum is exact.
+  let s = p + lo;
+  let bb = s - p;
+  const t = p - (s - bb) + (lo - bb);
+  const low = t + e;
+  let h = s + low;
+  let l = low - (h - s);
   if (h === 0) return 0;
   for (let k = exp10; k > 0; ) {
-    const s = k < 22 ? k : 22;
-    const p = POW10[s];
-    twoProduct(h, p);
-    fastTwoSum(rh, rl + l * p);
-    h = rh;
-    l = rl;
-    k -= s;
+    const step = k < 22 ? k : 22;
+    const q = POW10[step];
+    // twoProduct(h, q) then FastTwoSum(p, e + l·q).
+    p = h * q;
+    c = SPLIT * h;
+    const hh = c - (c - h);
+    const hl = h - hh;
+    c = SPLIT * q;
+    const qh = c - (c - q);
+    const ql = q - qh;
+    e = hh * qh - p + hh * ql + hl * qh + hl * ql;
+    const w = e + l * q;
+    h = p + w;
+    l = w - (h - p);
+    k -= step;
   }
   for (let k = -exp10; k > 0; ) {
-    const s = k < 22 ? k : 22;
-    const d = POW10[s];
+    const step = k < 22 ? k : 22;
+    const d = POW10[step];
     const q = h / d;
-    twoProduct(q, d);
-    fastTwoSum(q, (h - rh - rl + l) / d);
-    h = rh;
-    l = rl;
-    k -= s;
+    // twoProduct(q, d) = p + e exactly; then FastTwoSum(q, remainder / d).
+    p = q * d;
+    c = SPLIT * q;
+    const qh = c - (c - q);
+    const ql = q - qh;
+    c = SPLIT * d;
+    const dh = c - (c - d);
+    const dl = d - dh;
+    e = qh * dh - p + qh * dl + ql * dh + ql * dl;
+    const w = (h - p - e + l) / d;
+    h = q + w;
+    l = w - (h - q);
+    k -= step;
   }
-  const a = Math.abs(h);
+  const a = h < 0 ? -h : h;
   if (!(a > 1e-250 && a < 1e300)) return NaN;
-  // h = fl(h + l): h is the nearest double unless h + l is within the error bound of a half-way point.
-  if (Math.abs(l) + MARGIN * a < halfGap(h, l)) return h;
+  // h = fl(h + l); the exact value lies within MARGIN·a of h + l. It rounds to h when both ends of that
+  // interval do: fl(l ± 2·MARGIN·a) lies beyond l ± MARGIN·a (its own rounding error is below
+  // 2^-105·a), and fl(h + x) === h means h + x is at most half-way to a neighbour (strictly short of
+  // it for the true value), with the neighbour's gap (half the size below a power of two) handled by
+  // the addition itself.
+  const m = 2 * MARGIN * a;
+  if (h + (l + m) === h && h + (l - m) === h) return h;
   return NaN;
 }

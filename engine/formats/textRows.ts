@@ -77,6 +77,41 @@ export function textRowParserMake(
 
   let lastBuffer: Uint8Array | null = null;
 
+  /** The cells of one data row b[pos, end) into the arrays at particle n (a function of its own: optimised early). */
+  function rowCells(b: Uint8Array, pos: number, end: number): void {
+    let i = pos;
+    if (whitespace) while (i < end && isBlank(b[i])) i++;
+    for (let col = 0; ; col++) {
+      const slot = slotOf[col];
+      if (slot >= 0) {
+        cellParse(b, i, end, st, delim);
+        if (st.error !== CELL_OK) throw cellError(fileName, b, i, st, { row: line, particle: n, column: columns[col] });
+        const v = st.value;
+        if (slot < 3) positions[3 * n + slot] = v;
+        else if (slot === 3) masses[n] = v;
+        else if (slot < 7) acc![3 * n + slot - 4] = v;
+        else if (slot === 7) {
+          if (!Number.isInteger(v)) throw new SnapshotFormatError(fileName, `id ${v} is not an integer`, { row: line, particle: n, column: columns[col] });
+          ids![n] = v;
+        } else soft![n] = v;
+        i = st.end;
+      } else i = cellEndFind(b, i, end, delim);
+      if (col === lastColumn) break;
+      if (whitespace) while (i < end && isBlank(b[i])) i++;
+      else if (i < end) i++; // past the delimiter
+      else i = end + 1;
+      if (i > end || (whitespace && i === end)) {
+        let missing = col + 1;
+        while (slotOf[missing] < 0) missing++;
+        throw new SnapshotFormatError(fileName, `the row has only ${col + 1} cell${col === 0 ? '' : 's'}; ${SLOT_NAMES[slotOf[missing]]} is missing`, {
+          row: line,
+          particle: n,
+          column: columns[missing],
+        });
+      }
+    }
+  }
+
   /** Parses the lines in b[pos, limit) (the last one may lack its LF at the end of the file). */
   function parse(b: Uint8Array, pos: number, limit: number): void {
     if (b !== lastBuffer) {
@@ -101,37 +136,7 @@ export function textRowParserMake(
         continue;
       }
       if (n === cap) grow();
-      let i = pos;
-      if (whitespace) while (i < end && isBlank(b[i])) i++;
-      for (let col = 0; ; col++) {
-        const slot = slotOf[col];
-        if (slot >= 0) {
-          cellParse(b, i, end, st, delim);
-          if (st.error !== CELL_OK) throw cellError(fileName, b, i, st, { row: line, particle: n, column: columns[col] });
-          const v = st.value;
-          if (slot < 3) positions[3 * n + slot] = v;
-          else if (slot === 3) masses[n] = v;
-          else if (slot < 7) acc![3 * n + slot - 4] = v;
-          else if (slot === 7) {
-            if (!Number.isInteger(v)) throw new SnapshotFormatError(fileName, `id ${v} is not an integer`, { row: line, particle: n, column: columns[col] });
-            ids![n] = v;
-          } else soft![n] = v;
-          i = st.end;
-        } else i = cellEndFind(b, i, end, delim);
-        if (col === lastColumn) break;
-        if (whitespace) while (i < end && isBlank(b[i])) i++;
-        else if (i < end) i++; // past the delimiter
-        else i = end + 1;
-        if (i > end || (whitespace && i === end)) {
-          let missing = col + 1;
-          while (slotOf[missing] < 0) missing++;
-          throw new SnapshotFormatError(fileName, `the row has only ${col + 1} cell${col === 0 ? '' : 's'}; ${SLOT_NAMES[slotOf[missing]]} is missing`, {
-            row: line,
-            particle: n,
-            column: columns[missing],
-          });
-        }
-      }
+      rowCells(b, pos, end);
       if (!massFromColumn) masses[n] = massDefault;
       lines[n] = line;
       n++;

@@ -11,6 +11,7 @@ import { fileURLToPath } from 'node:url';
 
 export const ROOT = fileURLToPath(new URL('../..', import.meta.url)).replace(/\/$/, '');
 export const BIN = join(ROOT, 'bin', 'torusgrav.mjs');
+/** The build's entry files (scripts/build-cli.mjs); the shared chunk-*.mjs they import are written with them. */
 const OUTPUTS = ['torusgrav.mjs', 'forceWorker.mjs', 'pmeWorker.mjs'].map((f) => join(ROOT, 'dist-cli', f));
 
 function newestSource(dir: string): number {
@@ -24,7 +25,7 @@ function newestSource(dir: string): number {
 }
 
 function upToDate(): boolean {
-  const source = Math.max(newestSource(join(ROOT, 'app', 'cli')), newestSource(join(ROOT, 'engine')), statSync(join(ROOT, 'package.json')).mtimeMs);
+  const source = Math.max(newestSource(join(ROOT, 'app', 'cli')), newestSource(join(ROOT, 'engine')), statSync(join(ROOT, 'package.json')).mtimeMs, statSync(join(ROOT, 'scripts', 'build-cli.mjs')).mtimeMs);
   try {
     return OUTPUTS.every((o) => statSync(o).mtimeMs >= source);
   } catch {
