@@ -14,19 +14,15 @@ import { type Box } from '../../engine/box';
 import type { Progress } from '../../engine/ewald/ewald';
 import {
   type PmeOptions,
-  type PmeParams,
   type PmeResult,
-  type PmeSetupShared,
   pmeFinalize,
   pmeForces,
-  pmeMeshLength,
   pmePredictedErrors,
   pmeRealCollect,
-  pmeScratch,
   pmeSetup,
-  pmeSpreadBlocks,
 } from '../../engine/pme/index';
-import { PME_PHASES, type PmePhase, type PmeShared, pmePhaseRun } from '../common/pmePhases';
+import { type PmePhase, pmePhaseRun } from '../common/pmePhases';
+import { type PmeSetupMessage, pmeSharedStart } from '../common/pmeShared';
 
 /**
  * Largest automatic mesh on the command line (points): 10^8 (0.8 GB), larger than the engine's default
@@ -39,20 +35,7 @@ export const PME_CLI_MAX_MESH = 1e8;
 export const PME_THREADED_MIN_PARTICLES = 8192;
 
 export type PmeWorkerRequest =
-  | {
-      type: 'setup';
-      positions: SharedArrayBuffer;
-      masses: SharedArrayBuffer;
-      box: [number, number, number];
-      params: PmeParams;
-      /** The main setup's cell list (typed arrays over shared memory) and small tables, reused as they are. */
-      reuse: PmeSetupShared;
-      mesh: SharedArrayBuffer;
-      acc: SharedArrayBuffer;
-      phi: SharedArrayBuffer;
-      counters: SharedArrayBuffer;
-      cuts: SharedArrayBuffer | null;
-    }
+  | PmeSetupMessage
   | { type: 'phases'; phases: PmePhase[] }
   | { type: 'collect' };
 
@@ -67,28 +50,6 @@ export interface PmeThreadsResult extends PmeResult {
   readonly phases: Readonly<Record<string, number>>;
   /** CPU seconds of the process (all threads) per stage, when threaded. */
   readonly cpuPhases?: Readonly<Record<string, number>>;
-}
-
-function sharedCopy(a: Float64Array | Int32Array): SharedArrayBuffer {
-  const buf = new SharedArrayBuffer(a.byteLength);
-  new Uint8Array(buf).set(new Uint8Array(a.buffer, a.byteOffset, a.byteLength));
-  return buf;
-}
-
-/** The setup's cell list with its big arrays in shared memory (posted to workers without copying). */
-function sharedReuse(setup: ReturnType<typeof pmeSetup>): PmeSetupShared {
-  const c = setup.cells;
-  return {
-    cells: {
-      ...c,
-      xyzm: new Float64Array(sharedCopy(c.xyzm)),
-      order: new Int32Array(sharedCopy(c.order)),
-      slot: new Int32Array(sharedCopy(c.slot)),
-      start: new Int32Array(sharedCopy(c.start)),
-    },
-    influence: setup.influence,
-    selfForce: setup.selfForce,
-  };
 }
 
 /** One worker with a request/reply channel (one request at a time). */
@@ -123,15 +84,6 @@ class PmeWorkerHandle {
   close(): Promise<number> {
     return this.worker.terminate();
   }
-}
-
-/** Spreading blocks: several per thread for balance, fewer when the mesh is thin, none (one unit) at worst. */
-function spreadCuts(setup: ReturnType<typeof pmeSetup>, threads: number): Int32Array | null {
-  for (let perThread = 4; perThread >= 1; perThread--) {
-    const cuts = pmeSpreadBlocks(setup, 2 * threads * perThread);
-    if (cuts) return cuts;
-  }
-  return pmeSpreadBlocks(setup, 2);
 }
 
 /**
@@ -174,30 +126,8 @@ export async function pmeForcesThreads(
   try {
     const setup = pmeSetup(positions, masses, box, options);
     lap('setup');
-    const meshBuf = new SharedArrayBuffer(8 * pmeMeshLength(setup));
-    const accBuf = new SharedArrayBuffer(8 * 3 * n);
-    const phiBuf = new SharedArrayBuffer(8 * n);
-    const counterBuf = new SharedArrayBuffer(4 * PME_PHASES.length);
-    const cuts = spreadCuts(setup, threads);
-    const cutsBuf = cuts ? sharedCopy(cuts) : null;
-    const mine: PmeShared = {
-      setup,
-      mesh: new Float64Array(meshBuf),
-      accSorted: new Float64Array(accBuf),
-      phiSorted: new Float64Array(phiBuf),
-      counters: new Int32Array(counterBuf),
-      cuts: cutsBuf ? new Int32Array(cutsBuf) : null,
-      scratch: pmeScratch(setup),
-    };
-    const positionsBuf = sharedCopy(setup.positions);
-    const massesBuf = sharedCopy(masses);
-    const reuse = workers.length > 0 ? sharedReuse(setup) : null;
-    const ready = workers.map((w) =>
-      w.send({
-        type: 'setup', positions: positionsBuf, masses: massesBuf, box: [box.lx, box.ly, box.lz], params: setup.params, reuse: reuse!,
-        mesh: meshBuf, acc: accBuf, phi: phiBuf, counters: counterBuf, cuts: cutsBuf,
-      }),
-    );
+    const { mine, message } = pmeSharedStart(setup, masses, box, threads, workers.length > 0);
+    const ready = workers.map((w) => w.send(message!));
     // Every thread runs the same phases; the workers' replies are the barrier. The first spreading
     // phase starts here while the workers still build their setups (they join when ready).
     const stage = async (list: PmePhase[], from: number, to: number) => {

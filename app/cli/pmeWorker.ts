@@ -3,10 +3,10 @@
  * shared buffers, then phases on request (app/common/pmePhases.ts), then the real-space sums handed back. No numerics.
  */
 import { parentPort } from 'node:worker_threads';
-import { boxMake } from '../../engine/box';
-import { pmeRealCollect, pmeScratch, pmeSetupPinned } from '../../engine/pme/index';
+import { pmeRealCollect } from '../../engine/pme/index';
 import type { PmeWorkerReply, PmeWorkerRequest } from './parallelPme';
 import { type PmeShared, pmePhaseRun } from '../common/pmePhases';
+import { pmeSharedJoin } from '../common/pmeShared';
 
 let shared: PmeShared | null = null;
 
@@ -18,16 +18,7 @@ parentPort!.on('message', (msg: PmeWorkerRequest) => {
   try {
     switch (msg.type) {
       case 'setup': {
-        const setup = pmeSetupPinned(new Float64Array(msg.positions), new Float64Array(msg.masses), boxMake(...msg.box), msg.params, msg.reuse);
-        shared = {
-          setup,
-          mesh: new Float64Array(msg.mesh),
-          accSorted: new Float64Array(msg.acc),
-          phiSorted: new Float64Array(msg.phi),
-          counters: new Int32Array(msg.counters),
-          cuts: msg.cuts ? new Int32Array(msg.cuts) : null,
-          scratch: pmeScratch(setup),
-        };
+        shared = pmeSharedJoin(msg);
         reply({ type: 'done' });
         break;
       }

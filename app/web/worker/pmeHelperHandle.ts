@@ -3,26 +3,12 @@
  * call it directly): a pinned setup over the shared buffers, then phases on request (app/common/pmePhases.ts),
  * then its real-space sums handed back. One request at a time, one reply each. No numerics of its own.
  */
-import { boxMake } from '../../../engine/box';
-import { type PmeParams, type PmeSetupShared, pmeRealCollect, pmeScratch, pmeSetupPinned } from '../../../engine/pme/index';
+import { pmeRealCollect } from '../../../engine/pme/index';
 import { type PmePhase, type PmeShared, pmePhaseRun } from '../../common/pmePhases';
+import { type PmeSetupMessage, pmeSharedJoin } from '../../common/pmeShared';
 
 export type PmeHelperRequest =
-  | {
-      readonly type: 'setup';
-      /** The coordinating setup's wrapped positions and the masses (shared, read only). */
-      readonly positions: SharedArrayBuffer;
-      readonly masses: SharedArrayBuffer;
-      readonly box: readonly [number, number, number];
-      readonly params: PmeParams;
-      /** The coordinating setup's cell list (over shared memory) and tables (copied). */
-      readonly reuse: PmeSetupShared;
-      readonly mesh: SharedArrayBuffer;
-      readonly acc: SharedArrayBuffer;
-      readonly phi: SharedArrayBuffer;
-      readonly counters: SharedArrayBuffer;
-      readonly cuts: SharedArrayBuffer | null;
-    }
+  | PmeSetupMessage
   | { readonly type: 'phases'; readonly phases: readonly PmePhase[] }
   | { readonly type: 'collect' };
 
@@ -45,16 +31,7 @@ export function pmeHelperHandler(post: PmeHelperPost): (msg: PmeHelperRequest) =
     try {
       switch (msg.type) {
         case 'setup': {
-          const setup = pmeSetupPinned(new Float64Array(msg.positions), new Float64Array(msg.masses), boxMake(...msg.box), msg.params, msg.reuse);
-          shared = {
-            setup,
-            mesh: new Float64Array(msg.mesh),
-            accSorted: new Float64Array(msg.acc),
-            phiSorted: new Float64Array(msg.phi),
-            counters: new Int32Array(msg.counters),
-            cuts: msg.cuts ? new Int32Array(msg.cuts) : null,
-            scratch: pmeScratch(setup),
-          };
+          shared = pmeSharedJoin(msg);
           post({ type: 'done' }, []);
           return;
         }

@@ -6,25 +6,22 @@
  * (app/common/pmePhases.ts), with the helpers' replies as the barrier after each; the helpers' real-space
  * sums are added here and pmeFinalize runs here. Helpers are started per run and terminated after it.
  * Without cross-origin isolation (no SharedArrayBuffer) the run stays on this thread (pmeForces).
- * Cancel terminates the compute worker; the browser ends its nested workers with it.
+ * Cancel terminates the compute worker; the browser ends its nested helpers too, but only once each has
+ * finished the phase it is in (up to a few seconds of wasted work; no leak).
  */
 import type { Box } from '../../../engine/box';
 import type { Progress } from '../../../engine/ewald/ewald';
 import {
   type PmeOptions,
   type PmeResult,
-  type PmeSetup,
-  type PmeSetupShared,
   pmeFinalize,
   pmeForces,
-  pmeMeshLength,
   pmePredictedErrors,
   pmeRealCollect,
-  pmeScratch,
   pmeSetup,
-  pmeSpreadBlocks,
 } from '../../../engine/pme/index';
-import { PME_PHASES, type PmePhase, type PmeShared, pmePhaseRun } from '../../common/pmePhases';
+import { type PmePhase, pmePhaseRun } from '../../common/pmePhases';
+import { pmeSharedStart } from '../../common/pmeShared';
 import type { PmeHelperReply, PmeHelperRequest } from './pmeHelperHandle';
 
 /** Most threads "auto" uses (this one included): more rarely pays in a tab that also draws. */
@@ -121,37 +118,6 @@ class Helper {
   }
 }
 
-function sharedCopy(a: Float64Array | Int32Array): SharedArrayBuffer {
-  const buf = new SharedArrayBuffer(a.byteLength);
-  new Uint8Array(buf).set(new Uint8Array(a.buffer, a.byteOffset, a.byteLength));
-  return buf;
-}
-
-/** The setup's cell list with its big arrays in shared memory (posted without copying) and its tables. */
-export function pmeReuseShared(setup: PmeSetup): PmeSetupShared {
-  const c = setup.cells;
-  return {
-    cells: {
-      ...c,
-      xyzm: new Float64Array(sharedCopy(c.xyzm)),
-      order: new Int32Array(sharedCopy(c.order)),
-      slot: new Int32Array(sharedCopy(c.slot)),
-      start: new Int32Array(sharedCopy(c.start)),
-    },
-    influence: setup.influence,
-    selfForce: setup.selfForce,
-  };
-}
-
-/** Spreading blocks: several per thread for balance, fewer when the mesh is thin, null (one unit) at worst. */
-export function pmeSpreadCuts(setup: PmeSetup, threads: number): Int32Array | null {
-  for (let perThread = 4; perThread >= 1; perThread--) {
-    const cuts = pmeSpreadBlocks(setup, 2 * threads * perThread);
-    if (cuts) return cuts;
-  }
-  return pmeSpreadBlocks(setup, 2);
-}
-
 export interface PmeParallelResult extends PmeResult {
   /** Threads that computed (this one included). */
   readonly threadsUsed: number;
@@ -173,33 +139,14 @@ export async function pmeForcesParallel(
   spawn: PmeHelperSpawn = pmeHelperSpawn,
 ): Promise<PmeParallelResult> {
   if (threads <= 1) return { ...pmeForces(positions, masses, box, options, onProgress), threadsUsed: 1 };
-  const n = masses.length;
   // helpers load their module while the parameters are chosen here
   const helpers = Array.from({ length: threads - 1 }, () => new Helper(spawn));
   try {
     const setup = pmeSetup(positions, masses, box, options);
     onProgress?.(0.05);
-    const meshBuf = new SharedArrayBuffer(8 * pmeMeshLength(setup));
-    const accBuf = new SharedArrayBuffer(8 * 3 * n);
-    const phiBuf = new SharedArrayBuffer(8 * n);
-    const counterBuf = new SharedArrayBuffer(4 * PME_PHASES.length);
-    const cuts = pmeSpreadCuts(setup, threads);
-    const cutsBuf = cuts ? sharedCopy(cuts) : null;
-    const mine: PmeShared = {
-      setup,
-      mesh: new Float64Array(meshBuf),
-      accSorted: new Float64Array(accBuf),
-      phiSorted: new Float64Array(phiBuf),
-      counters: new Int32Array(counterBuf),
-      cuts: cutsBuf ? new Int32Array(cutsBuf) : null,
-      scratch: pmeScratch(setup),
-    };
-    const setupMsg: PmeHelperRequest = {
-      type: 'setup', positions: sharedCopy(setup.positions), masses: sharedCopy(masses), box: [box.lx, box.ly, box.lz], params: setup.params,
-      reuse: pmeReuseShared(setup), mesh: meshBuf, acc: accBuf, phi: phiBuf, counters: counterBuf, cuts: cutsBuf,
-    };
+    const { mine, message: setupMsg } = pmeSharedStart(setup, masses, box, threads, true);
     // true once set up, false if it failed before: such a helper never took a unit and is left out
-    const ready = helpers.map((h) => h.send(setupMsg).then(() => true, () => false));
+    const ready = helpers.map((h) => h.send(setupMsg!).then(() => true, () => false));
     const stage = async (list: PmePhase[], from: number, to: number) => {
       const msg: PmeHelperRequest = { type: 'phases', phases: list };
       const replies = helpers.map((h, i) => (h.setUp ? h.send(msg) : ready[i].then((ok) => (ok ? h.send(msg) : null))));
