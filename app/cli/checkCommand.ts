@@ -23,7 +23,7 @@ import { CliError, UsageError } from './cliErrors';
 import type { CliIo } from './cliIo';
 import { engineErrorExplain, outsideWarning, targetIds } from './engineErrors';
 import { mappingFromOptions, sizeParse } from './mappingOptions';
-import { boxParse, integerParse, positiveParse, softeningParse, targetSpecParse, tolParse } from './optionValues';
+import { BOX_OPTION, boxParse, integerParse, positiveParse, softeningParse, targetSpecParse, tolParse } from './optionValues';
 import { defaultThreads, ewaldForcesThreads } from './parallelEwald';
 import { progressLine } from './progress';
 import { particlePlace, snapshotFileRead } from './snapshotFile';
@@ -63,7 +63,7 @@ export const CHECK_EXIT = [
 ];
 
 export const CHECK_OPTIONS: readonly OptionSpec[] = [
-  { name: 'box', metavar: 'L | Lx,Ly,Lz | @PATH', help: 'periodic box: one side (cube) or three sides, each > 0, or @PATH to read it from the file (as for forces) (required)' },
+  BOX_OPTION,
   { name: 'accelerations', metavar: 'SPEC', help: "the accelerations under test: three columns (x,y,z names or numbers) or one N×3 array/dataset, in the file's units (required)" },
   { name: 'require', metavar: 'KEY OP LIMIT', help: 'a requirement such as p99<=0.01 or max<0.05; repeat for several (at least one)', repeatable: true },
   { name: 'reference', metavar: 'ewald', help: 'the reference method (only ewald)', defaultText: 'ewald' },

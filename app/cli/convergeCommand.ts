@@ -15,7 +15,7 @@ import { CliError, UsageError } from './cliErrors';
 import type { CliIo } from './cliIo';
 import { outsideWarning, targetIds, withEngineErrors } from './engineErrors';
 import { mappingFromOptions, sizeParse } from './mappingOptions';
-import { boxParse, integerParse, numberParse, positiveParse, targetSpecParse } from './optionValues';
+import { BOX_OPTION, boxParse, integerParse, numberParse, positiveParse, targetSpecParse } from './optionValues';
 import { ORDER_OPTIONS, imageSumRun, orderEngineOptions, orderSettings } from './orderOptions';
 import { progressLine } from './progress';
 import { snapshotFileRead } from './snapshotFile';
@@ -44,7 +44,7 @@ export const CONVERGE_ABOUT = [
 ];
 
 export const CONVERGE_OPTIONS: readonly OptionSpec[] = [
-  { name: 'box', metavar: 'L | Lx,Ly,Lz | @PATH', help: 'periodic box: one side (cube) or three sides, each > 0, or @PATH to read it from the file (as for forces) (required)' },
+  BOX_OPTION,
   { name: 'out', metavar: 'FILE.csv', help: 'output file; written whole or not at all (required)' },
   ...ORDER_OPTIONS.map((s) => (s.name === 'order' ? { ...s, help: `${s.help} (required)` } : s.name === 'shells' ? { ...s, help: `${s.help} (required for sphere, cube and slabs)` } : s)),
   { name: 'targets', metavar: 'all|K', help: 'particles followed: all, or the first K data rows', defaultText: String(CONVERGE_DEFAULT_TARGETS) },

@@ -5,6 +5,7 @@
 import { type Box } from '../../engine/box';
 import type { Softening } from '../../engine/softening';
 import type { TargetSpec } from '../../engine/targets';
+import type { OptionSpec } from './argParse';
 import { UsageError } from './cliErrors';
 
 const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
@@ -33,6 +34,13 @@ export function integerParse(text: string, option: string, command: string, min:
   }
   return v;
 }
+
+/** The --box option of the commands that read it as forces does (a side, three sides, or @PATH in the file). */
+export const BOX_OPTION: OptionSpec = {
+  name: 'box',
+  metavar: 'L | Lx,Ly,Lz | @PATH',
+  help: 'periodic box: one side (cube) or three sides, each > 0, or @PATH to read it from the file (as for forces) (required)',
+};
 
 /** --box L (cube) or Lx,Ly,Lz; every side > 0. */
 export function boxParse(text: string, command: string): Box {
