@@ -39,11 +39,14 @@ export type PmeWorkerRequest =
   | { type: 'phases'; phases: PmePhase[] }
   | { type: 'collect' };
 
-export type PmeWorkerReply = { type: 'done' } | { type: 'collected'; acc: Float64Array; phi: Float64Array } | { type: 'error'; message: string };
+/** `units`: work units the worker ran (for phases). */
+export type PmeWorkerReply = { type: 'done'; units?: number } | { type: 'error'; message: string };
 
 export interface PmeThreadsResult extends PmeResult {
   /** Threads that computed (this one included). */
   readonly threadsUsed: number;
+  /** Work units of the phases run by the workers (0 on one thread; all of them would mean this thread idled). */
+  readonly workerUnits?: number;
   /** Predicted acceleration error per particle (acceleration units; pmePredictedErrors), when threaded. */
   readonly predictedErrors?: Float64Array;
   /** Wall-clock seconds per stage: setup (parameters), spread, fft, interpolation + real space, finish. */
@@ -124,14 +127,17 @@ export async function pmeForcesThreads(
   // Workers load their module while the parameters are chosen here.
   const workers = Array.from({ length: Math.max(0, threads - 1) }, () => new PmeWorkerHandle(workerUrl));
   try {
-    const setup = pmeSetup(positions, masses, box, options);
+    const setup = pmeSetup(positions, masses, box, { ...options, sharedMemory: threads > 1 });
     lap('setup');
     const { mine, message } = pmeSharedStart(setup, masses, box, threads, workers.length > 0);
-    const ready = workers.map((w) => w.send(message!));
-    // Every thread runs the same phases; the workers' replies are the barrier. The first spreading
-    // phase starts here while the workers still build their setups (they join when ready).
+    // The workers loaded their module while the parameters were chosen; joining takes them tens of ms.
+    // Every phase is posted to them before this thread runs its own (synchronous) share of it: a message
+    // posted from a promise callback would only leave after that loop, with every unit already taken.
+    await Promise.all(workers.map((w) => w.send(message!)));
+    let workerUnits = 0;
     const stage = async (list: PmePhase[], from: number, to: number) => {
-      const replies = workers.map((w, i) => ready[i].then(() => w.send({ type: 'phases', phases: list })));
+      const msg: PmeWorkerRequest = { type: 'phases', phases: list };
+      const replies = workers.map((w) => w.send(msg).then((r) => void (workerUnits += r.type === 'done' ? (r.units ?? 0) : 0)));
       for (const p of list) {
         pmePhaseRun(mine, p, p === 'real' ? (done, total) => onProgress?.(from + ((to - from) * done) / total) : undefined);
       }
@@ -147,18 +153,14 @@ export async function pmeForcesThreads(
     lap('fft');
     await stage(['interpolate', 'real'], 0.25, 0.98);
     lap('interpolateReal');
+    // Each thread adds its real-space sums into the shared sorted sums, one thread after the other.
     pmeRealCollect(setup, mine.accSorted, mine.phiSorted);
-    for (const w of workers) {
-      const r = await w.send({ type: 'collect' });
-      if (r.type !== 'collected') throw new Error('pme worker: unexpected reply to collect');
-      for (let k = 0; k < r.acc.length; k++) mine.accSorted[k] += r.acc[k];
-      for (let k = 0; k < r.phi.length; k++) mine.phiSorted[k] += r.phi[k];
-    }
+    for (const w of workers) await w.send({ type: 'collect' });
     const { acc, phi } = pmeFinalize(setup, mine.accSorted, mine.phiSorted);
     const predicted = pmePredictedErrors(setup, acc);
     lap('finish');
     onProgress?.(1);
-    return { acc, phi, params: setup.params, wrapped: setup.wrapped, predictedRmsRelativeError: predicted.rmsRelative, predictedErrors: predicted.perParticle, threadsUsed: workers.length + 1, phases, cpuPhases };
+    return { acc, phi, params: setup.params, wrapped: setup.wrapped, predictedRmsRelativeError: predicted.rmsRelative, predictedErrors: predicted.perParticle, threadsUsed: workers.length + 1, workerUnits, phases, cpuPhases };
   } finally {
     await Promise.all(workers.map((w) => w.close()));
   }

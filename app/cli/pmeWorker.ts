@@ -1,6 +1,7 @@
 /**
  * worker_threads adapter for particle-mesh Ewald (protocol in parallelPme.ts): a pinned setup over the
- * shared buffers, then phases on request (app/common/pmePhases.ts), then the real-space sums handed back. No numerics.
+ * shared buffers, then phases on request (app/common/pmePhases.ts), then its real-space sums added into the
+ * shared sorted sums. No numerics.
  */
 import { parentPort } from 'node:worker_threads';
 import { pmeRealCollect } from '../../engine/pme/index';
@@ -10,8 +11,8 @@ import { pmeSharedJoin } from '../common/pmeShared';
 
 let shared: PmeShared | null = null;
 
-function reply(r: PmeWorkerReply, transfer: ArrayBuffer[] = []): void {
-  parentPort!.postMessage(r, transfer);
+function reply(r: PmeWorkerReply): void {
+  parentPort!.postMessage(r);
 }
 
 parentPort!.on('message', (msg: PmeWorkerRequest) => {
@@ -23,16 +24,15 @@ parentPort!.on('message', (msg: PmeWorkerRequest) => {
         break;
       }
       case 'phases': {
-        for (const p of msg.phases) pmePhaseRun(shared!, p);
-        reply({ type: 'done' });
+        let units = 0;
+        for (const p of msg.phases) units += pmePhaseRun(shared!, p);
+        reply({ type: 'done', units });
         break;
       }
       case 'collect': {
-        const n = shared!.setup.masses.length;
-        const acc = new Float64Array(3 * n);
-        const phi = new Float64Array(n);
-        pmeRealCollect(shared!.setup, acc, phi);
-        reply({ type: 'collected', acc, phi }, [acc.buffer as ArrayBuffer, phi.buffer as ArrayBuffer]);
+        // Into the shared sorted sums: the coordinating thread asks one worker at a time.
+        pmeRealCollect(shared!.setup, shared!.accSorted, shared!.phiSorted);
+        reply({ type: 'done' });
         break;
       }
     }

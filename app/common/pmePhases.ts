@@ -75,14 +75,14 @@ function phaseWork(s: PmeShared, phase: PmePhase): { units: number; run: (k: num
 
 /**
  * Takes units of `phase` from its shared counter until none are left; onUnit(done, total) after each
- * unit this thread ran (done = units handed out so far, over all threads).
+ * unit this thread ran (done = units handed out so far, over all threads). Returns the units this thread ran.
  */
-export function pmePhaseRun(s: PmeShared, phase: PmePhase, onUnit?: (done: number, total: number) => void): void {
+export function pmePhaseRun(s: PmeShared, phase: PmePhase, onUnit?: (done: number, total: number) => void): number {
   const { units, run } = phaseWork(s, phase);
   const c = PME_PHASES.indexOf(phase);
-  for (;;) {
+  for (let ran = 0; ; ran++) {
     const k = Atomics.add(s.counters, c, 1);
-    if (k >= units) return;
+    if (k >= units) return ran;
     run(k);
     onUnit?.(Math.min(units, k + 1), units);
   }

@@ -34,23 +34,28 @@ export interface PmeSetupMessage {
   readonly cuts: SharedArrayBuffer | null;
 }
 
-/** A copy of a typed array's bytes in shared memory. */
+/** The typed array's bytes in shared memory: its own buffer when it already is one (whole), else a copy. */
 export function sharedCopy(a: Float64Array | Int32Array): SharedArrayBuffer {
+  if (a.buffer instanceof SharedArrayBuffer && a.byteOffset === 0 && a.byteLength === a.buffer.byteLength) return a.buffer;
   const buf = new SharedArrayBuffer(a.byteLength);
   new Uint8Array(buf).set(new Uint8Array(a.buffer, a.byteOffset, a.byteLength));
   return buf;
 }
 
-/** The setup's cell list with its big arrays in shared memory, and its tables. */
+/** The setup's cell list with its big arrays in shared memory (shared, not copied, when they already are), and its tables. */
 export function pmeReuseShared(setup: PmeSetup): PmeSetupShared {
   const c = setup.cells;
+  const view = <T extends Float64Array | Int32Array>(a: T, make: new (b: SharedArrayBuffer) => T): T => {
+    const b = sharedCopy(a);
+    return b === a.buffer ? a : new make(b);
+  };
   return {
     cells: {
       ...c,
-      xyzm: new Float64Array(sharedCopy(c.xyzm)),
-      order: new Int32Array(sharedCopy(c.order)),
-      slot: new Int32Array(sharedCopy(c.slot)),
-      start: new Int32Array(sharedCopy(c.start)),
+      xyzm: view(c.xyzm, Float64Array),
+      order: view(c.order, Int32Array),
+      slot: view(c.slot, Int32Array),
+      start: view(c.start, Int32Array),
     },
     influence: setup.influence,
     selfForce: setup.selfForce,

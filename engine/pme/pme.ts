@@ -68,7 +68,9 @@ export interface PmeSetup {
  */
 export function pmeSetup(positions: Float64Array, masses: Float64Array, box: Box, options: PmeOptions = {}): PmeSetup {
   particlesValidate(positions, masses);
-  const wrappedPositions = Float64Array.from(positions);
+  const shared = options.sharedMemory === true;
+  const wrappedPositions = shared ? new Float64Array(new SharedArrayBuffer(positions.byteLength)) : new Float64Array(positions.length);
+  wrappedPositions.set(positions);
   const wrapped = positionsWrap(wrappedPositions, box);
   const opts = pmeOptionsResolve(options);
   const density = densityStats(wrappedPositions, masses, box);
@@ -110,7 +112,7 @@ export function pmeSetup(positions: Float64Array, masses: Float64Array, box: Box
     if (settled || round === 2) break;
     params = pmeParamsChoose(masses, box, density, opts, model.factor);
   }
-  return setupFromParams(wrappedPositions, masses, box, params, wrapped, { density, map: model.map });
+  return setupFromParams(wrappedPositions, masses, box, params, wrapped, { density, map: model.map }, null, shared);
 }
 
 /** Pieces of another setup with the same parameters that a pinned setup may reuse instead of rebuilding. */
@@ -128,8 +130,9 @@ function setupFromParams(
   wrapped: number,
   errors: PmeSetup['errors'],
   reuse: PmeSetupShared | null = null,
+  shared = false,
 ): PmeSetup {
-  const cells = reuse?.cells ?? cellListBuild(wrappedPositions, masses, box, params.cells, Math.max(params.rCut, params.rSoft));
+  const cells = reuse?.cells ?? cellListBuild(wrappedPositions, masses, box, params.cells, Math.max(params.rCut, params.rSoft), shared);
   const table = kernelTableBuild(params.alpha * params.alpha * params.rCut * params.rCut);
   const n = params.mesh;
   const influence = reuse?.influence ?? influenceTables(n, box, params.alpha, params.order, params.influence);

@@ -112,6 +112,7 @@ async function runCase(n: number, kind: string, tol: number, threads: number, wo
     seconds: round(seconds),
     cpuSeconds: round((cpu.user + cpu.system) / 1e6),
     threadsUsed: result.threadsUsed,
+    workerUnits: result.workerUnits,
     phases: Object.fromEntries(Object.entries(result.phases).map(([k, v]) => [k, round(v)])),
     cpuPhases: Object.fromEntries(Object.entries(result.cpuPhases ?? {}).map(([k, v]) => [k, round(v)])),
     peakRssMB: Math.round(peakRss / 2 ** 20),
