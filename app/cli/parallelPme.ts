@@ -1,12 +1,14 @@
 /**
  * Particle-mesh Ewald on worker_threads over shared memory. Scheduling only; the numerics are the
  * engine's (engine/pme/pme.ts), in the same order of pieces as pmeForces on one thread:
- *   workers start loading → this thread chooses the parameters (pmeSetup, with the error model) → each
- *   worker makes a pinned setup from this one's cell list (shared memory) and tables (same sorted order)
- *   → phases, every one split over all threads (this one included) by a shared counter, with a barrier
- *   after each (app/common/pmePhases.ts): spreading in x-slab blocks of one parity at a time (disjoint mesh planes),
- *   FFT column blocks, spectrum slabs, column blocks, then interpolation (particle ranges) and the
- *   real-space sums (cell chunks) → the workers' real-space sums are added here → pmeFinalize.
+ *   workers start loading → this thread chooses the parameters (pmeChoose, with the error model) → the
+ *   workers page in the fresh shared mesh and sums while this thread builds the cell list and tables
+ *   (pmeSetupBuild; it joins the paging after) → each worker makes a pinned setup from this one's cell
+ *   list (shared memory) and tables (same sorted order) → phases, every one split over all threads (this
+ *   one included) by a shared counter, with a barrier after each (app/common/pmePhases.ts): spreading in
+ *   x-slab blocks of one parity at a time (disjoint mesh planes), FFT column blocks, spectrum slabs,
+ *   column blocks, then interpolation (particle ranges) and the real-space sums (cell chunks) → each
+ *   worker adds its real-space sums into the shared ones in turn → pmeFinalize.
  * Ctrl-C ends the process (workers included) with the default signal action; nothing is written before.
  */
 import { Worker } from 'node:worker_threads';
@@ -19,10 +21,12 @@ import {
   pmeForces,
   pmePredictedErrors,
   pmeRealCollect,
-  pmeSetup,
+  pmeChoose,
+  pmeMeshLengthOf,
+  pmeSetupBuild,
 } from '../../engine/pme/index';
 import { type PmePhase, pmePhaseRun } from '../common/pmePhases';
-import { type PmeSetupMessage, pmeSharedStart } from '../common/pmeShared';
+import { type PmeSetupMessage, pagesTouch, pmeSharedBuffers, pmeSharedStart } from '../common/pmeShared';
 
 /**
  * Largest automatic mesh on the command line (points): 10^8 (0.8 GB), larger than the engine's default
@@ -35,6 +39,7 @@ export const PME_CLI_MAX_MESH = 1e8;
 export const PME_THREADED_MIN_PARTICLES = 8192;
 
 export type PmeWorkerRequest =
+  | { type: 'touch'; buffers: SharedArrayBuffer[]; counter: SharedArrayBuffer }
   | PmeSetupMessage
   | { type: 'phases'; phases: PmePhase[] }
   | { type: 'collect' };
@@ -55,31 +60,33 @@ export interface PmeThreadsResult extends PmeResult {
   readonly cpuPhases?: Readonly<Record<string, number>>;
 }
 
-/** One worker with a request/reply channel (one request at a time). */
+/** One worker with a request/reply channel: replies come in request order (a FIFO of pending requests). */
 class PmeWorkerHandle {
   private readonly worker: Worker;
-  private pending: { resolve: (r: PmeWorkerReply) => void; reject: (e: Error) => void } | null = null;
+  private readonly pending: { resolve: (r: PmeWorkerReply) => void; reject: (e: Error) => void }[] = [];
   private failed: Error | null = null;
 
   constructor(url: URL) {
     this.worker = new Worker(url);
     this.worker.on('message', (r: PmeWorkerReply) => {
-      const p = this.pending;
-      this.pending = null;
+      const p = this.pending.shift();
       if (r.type === 'error') p?.reject(new Error(r.message));
       else p?.resolve(r);
     });
     this.worker.on('error', (e) => {
       this.failed = e instanceof Error ? e : new Error(String(e));
-      this.pending?.reject(this.failed);
-      this.pending = null;
+      for (const p of this.pending.splice(0)) p.reject(this.failed);
+    });
+    this.worker.on('exit', (code) => {
+      this.failed ??= new Error(`pme worker stopped (exit code ${code})`);
+      for (const p of this.pending.splice(0)) p.reject(this.failed);
     });
   }
 
   send(msg: PmeWorkerRequest): Promise<PmeWorkerReply> {
     if (this.failed) return Promise.reject(this.failed);
     return new Promise((resolve, reject) => {
-      this.pending = { resolve, reject };
+      this.pending.push({ resolve, reject });
       this.worker.postMessage(msg);
     });
   }
@@ -127,13 +134,21 @@ export async function pmeForcesThreads(
   // Workers load their module while the parameters are chosen here.
   const workers = Array.from({ length: Math.max(0, threads - 1) }, () => new PmeWorkerHandle(workerUrl));
   try {
-    const setup = pmeSetup(positions, masses, box, { ...options, sharedMemory: threads > 1 });
+    const choice = pmeChoose(positions, masses, box, { ...options, sharedMemory: workers.length > 0 });
+    // The workers are idle until the setup is built: they have the run's fresh shared memory paged in
+    // meanwhile (a first write costs ~3 ms per MB here; the mesh alone may be most of a gigabyte).
+    const buffers = pmeSharedBuffers(pmeMeshLengthOf(choice.params), n);
+    const touch = { type: 'touch' as const, buffers: [buffers.mesh, buffers.acc, buffers.phi], counter: new SharedArrayBuffer(4) };
+    for (const w of workers) void w.send(touch).catch(() => undefined); // a failure resurfaces at the next request
+    const setup = pmeSetupBuild(choice, masses, box);
     lap('setup');
-    const { mine, message } = pmeSharedStart(setup, masses, box, threads, workers.length > 0);
+    if (workers.length > 0) pagesTouch(touch.buffers, new Int32Array(touch.counter));
+    const { mine, message } = pmeSharedStart(setup, masses, box, threads, workers.length > 0, buffers);
     // The workers loaded their module while the parameters were chosen; joining takes them tens of ms.
     // Every phase is posted to them before this thread runs its own (synchronous) share of it: a message
     // posted from a promise callback would only leave after that loop, with every unit already taken.
     await Promise.all(workers.map((w) => w.send(message!)));
+    lap('touch');
     let workerUnits = 0;
     const stage = async (list: PmePhase[], from: number, to: number) => {
       const msg: PmeWorkerRequest = { type: 'phases', phases: list };

@@ -7,7 +7,7 @@ import { parentPort } from 'node:worker_threads';
 import { pmeRealCollect } from '../../engine/pme/index';
 import type { PmeWorkerReply, PmeWorkerRequest } from './parallelPme';
 import { type PmeShared, pmePhaseRun } from '../common/pmePhases';
-import { pmeSharedJoin } from '../common/pmeShared';
+import { pagesTouch, pmeSharedJoin } from '../common/pmeShared';
 
 let shared: PmeShared | null = null;
 
@@ -18,6 +18,10 @@ function reply(r: PmeWorkerReply): void {
 parentPort!.on('message', (msg: PmeWorkerRequest) => {
   try {
     switch (msg.type) {
+      case 'touch': {
+        reply({ type: 'done', units: pagesTouch(msg.buffers, new Int32Array(msg.counter)) });
+        break;
+      }
       case 'setup': {
         shared = pmeSharedJoin(msg);
         reply({ type: 'done' });

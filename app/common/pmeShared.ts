@@ -71,15 +71,64 @@ export function pmeSpreadCuts(setup: PmeSetup, threads: number): Int32Array | nu
   return pmeSpreadBlocks(setup, 2);
 }
 
+/** The big zeroed shared buffers of a run: mesh, sorted accelerations (3N) and potentials (N). */
+export interface PmeSharedBuffers {
+  readonly mesh: SharedArrayBuffer;
+  readonly acc: SharedArrayBuffer;
+  readonly phi: SharedArrayBuffer;
+}
+
+/** Fresh buffers for a mesh of `meshLength` numbers (pmeMeshLengthOf) and n particles. */
+export function pmeSharedBuffers(meshLength: number, n: number): PmeSharedBuffers {
+  return { mesh: new SharedArrayBuffer(8 * meshLength), acc: new SharedArrayBuffer(24 * n), phi: new SharedArrayBuffer(8 * n) };
+}
+
+/** Bytes per unit of pagesTouch. */
+const TOUCH_BLOCK = 1 << 20;
+
+/** Units of pagesTouch over these buffers (1 MiB blocks). */
+export function pagesTouchUnits(buffers: readonly SharedArrayBuffer[]): number {
+  return buffers.reduce((s, b) => s + Math.ceil(b.byteLength / TOUCH_BLOCK), 0);
+}
+
+/**
+ * Writes a zero into every 4 KiB page of the buffers (still all zero), taking 1 MiB blocks from
+ * counter[0] until none are left: the operating system supplies fresh memory on first write, at
+ * ~3 ms per MB on the project machine, and this lets an idle thread pay that ahead of time. Returns the
+ * blocks this thread touched.
+ */
+export function pagesTouch(buffers: readonly SharedArrayBuffer[], counter: Int32Array): number {
+  const total = pagesTouchUnits(buffers);
+  for (let ran = 0; ; ran++) {
+    let k = Atomics.add(counter, 0, 1);
+    if (k >= total) return ran;
+    for (const b of buffers) {
+      const blocks = Math.ceil(b.byteLength / TOUCH_BLOCK);
+      if (k >= blocks) {
+        k -= blocks;
+        continue;
+      }
+      const bytes = new Uint8Array(b, k * TOUCH_BLOCK, Math.min(TOUCH_BLOCK, b.byteLength - k * TOUCH_BLOCK));
+      for (let o = 0; o < bytes.length; o += 4096) bytes[o] = 0;
+      break;
+    }
+  }
+}
+
 /**
  * The coordinating thread's view of a run on `threads` threads (mesh, sorted sums, phase counters and
  * spreading blocks in shared memory) and, when `helpers` is true, the message that lets helpers join it.
  */
-export function pmeSharedStart(setup: PmeSetup, masses: Float64Array, box: Box, threads: number, helpers: boolean): { mine: PmeShared; message: PmeSetupMessage | null } {
-  const n = masses.length;
-  const mesh = new SharedArrayBuffer(8 * pmeMeshLength(setup));
-  const acc = new SharedArrayBuffer(8 * 3 * n);
-  const phi = new SharedArrayBuffer(8 * n);
+export function pmeSharedStart(
+  setup: PmeSetup,
+  masses: Float64Array,
+  box: Box,
+  threads: number,
+  helpers: boolean,
+  buffers: PmeSharedBuffers = pmeSharedBuffers(pmeMeshLength(setup), masses.length),
+): { mine: PmeShared; message: PmeSetupMessage | null } {
+  const { mesh, acc, phi } = buffers;
+  if (mesh.byteLength !== 8 * pmeMeshLength(setup) || acc.byteLength !== 24 * masses.length) throw new RangeError('pmeSharedStart: buffers of another size');
   const counters = new SharedArrayBuffer(4 * PME_PHASES.length);
   const cutsArray = pmeSpreadCuts(setup, threads);
   const cuts = cutsArray ? sharedCopy(cutsArray) : null;

@@ -61,12 +61,41 @@ export interface PmeSetup {
   allSorted?: { acc: Float64Array; phi: Float64Array };
 }
 
+/** The parameter choice of a run (pmeChoose), before its tables and cell list are built (pmeSetupBuild). */
+export interface PmeChoice {
+  /** Positions wrapped into the home cell (in shared memory with options.sharedMemory), and how many moved. */
+  readonly wrappedPositions: Float64Array;
+  readonly wrapped: number;
+  readonly params: PmeParams;
+  readonly errors: NonNullable<PmeSetup['errors']>;
+  readonly shared: boolean;
+}
+
 /**
  * Prepares a run: wraps positions (length units) into the box, measures clustering, chooses α, r_c, mesh
  * and order for the requested tolerance, builds the cell list, kernel table, FFT plans and influence
- * tables. Masses may be signed.
+ * tables. Masses may be signed. Same as pmeSetupBuild(pmeChoose(…)).
  */
 export function pmeSetup(positions: Float64Array, masses: Float64Array, box: Box, options: PmeOptions = {}): PmeSetup {
+  return pmeSetupBuild(pmeChoose(positions, masses, box, options), masses, box);
+}
+
+/** The tables and cell list of a chosen run (the second half of pmeSetup). */
+export function pmeSetupBuild(choice: PmeChoice, masses: Float64Array, box: Box): PmeSetup {
+  return setupFromParams(choice.wrappedPositions, masses, box, choice.params, choice.wrapped, choice.errors, null, choice.shared);
+}
+
+/** Mesh buffer length (numbers) of a parameter set: (n0 + 2)·n1·n2, as pmeMeshLength of its setup. */
+export function pmeMeshLengthOf(params: PmeParams): number {
+  const [n0, n1, n2] = params.mesh;
+  return (n0 + 2) * n1 * n2;
+}
+
+/**
+ * The first half of pmeSetup: validation, wrapping, density statistics, the error model and the
+ * parameter choice (α, r_c, mesh, order) for the requested tolerance.
+ */
+export function pmeChoose(positions: Float64Array, masses: Float64Array, box: Box, options: PmeOptions = {}): PmeChoice {
   particlesValidate(positions, masses);
   const shared = options.sharedMemory === true;
   const wrappedPositions = shared ? new Float64Array(new SharedArrayBuffer(positions.byteLength)) : new Float64Array(positions.length);
@@ -112,7 +141,7 @@ export function pmeSetup(positions: Float64Array, masses: Float64Array, box: Box
     if (settled || round === 2) break;
     params = pmeParamsChoose(masses, box, density, opts, model.factor);
   }
-  return setupFromParams(wrappedPositions, masses, box, params, wrapped, { density, map: model.map }, null, shared);
+  return { wrappedPositions, wrapped, params, errors: { density, map: model.map }, shared };
 }
 
 /** Pieces of another setup with the same parameters that a pinned setup may reuse instead of rebuilding. */

@@ -8,7 +8,8 @@ import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { pmeForcesThreads } from '../../app/cli/parallelPme';
-import { pmeForces } from '../../engine/pme/index';
+import { pagesTouch, pagesTouchUnits } from '../../app/common/pmeShared';
+import { pmeForces, pmeMeshLength, pmeMeshLengthOf, pmeSetup } from '../../engine/pme/index';
 import { snapshotClustered } from '../helpers/snapshots';
 import { maxScalarErrorOverRms, maxVectorRelativeError } from '../helpers/tolerance';
 import { ROOT, cliEnsureBuilt } from './cliHarness';
@@ -29,5 +30,23 @@ describe('pmeForcesThreads on 2 threads (this one and a worker)', () => {
     // Thousands of units (2048 real-space chunks alone) are handed out one at a time; the worker is told
     // of each phase before this thread starts on it, so it takes some (without the fix: exactly 0).
     expect(two.workerUnits).toBeGreaterThan(0);
+  });
+});
+
+describe('paging in the shared buffers ahead of a run', () => {
+  it('pagesTouch hands out every 1 MiB block once over threads sharing the counter and leaves the buffers zero', () => {
+    const buffers = [new SharedArrayBuffer(3 * 2 ** 20 + 5), new SharedArrayBuffer(100)];
+    expect(pagesTouchUnits(buffers)).toBe(5); // 4 blocks (the last one 5 bytes) + 1
+    const counter = new Int32Array(new SharedArrayBuffer(4));
+    const first = pagesTouch(buffers, counter);
+    const second = pagesTouch(buffers, counter); // a late thread finds nothing left
+    expect([first, second]).toEqual([5, 0]);
+    for (const b of buffers) expect(new Uint8Array(b).every((v) => v === 0)).toBe(true);
+  });
+
+  it('pmeMeshLengthOf(params) is the mesh buffer length of the setup those parameters build', () => {
+    const s = snapshotClustered(3000, 2, [1, 1.5, 0.7]);
+    const setup = pmeSetup(s.positions, s.masses, s.box, { tol: 1e-5 });
+    expect(pmeMeshLengthOf(setup.params)).toBe(pmeMeshLength(setup));
   });
 });
