@@ -11,7 +11,6 @@ import {
   ewaldStructureFactor,
   ewaldTargetsChunk,
 } from '../../engine/ewald/ewald';
-import { kernelTableBuild } from '../../engine/ewald/kernelTable';
 import { kernelModule, kernelModuleShare } from '../../engine/wasm/module';
 import type { WorkerRequest } from './parallelProtocol';
 import { PhaseClock } from './phaseTiming';
@@ -64,11 +63,6 @@ parentPort!.on('message', (msg: WorkerRequest) => {
       case 'cells': {
         ewaldAllRealChunk(setup!, msg.begin, msg.end);
         parentPort!.postMessage({ type: 'done' });
-        break;
-      }
-      case 'table': {
-        const coef = kernelTableBuild(msg.uMax).coef;
-        parentPort!.postMessage({ type: 'table', coef }, [coef.buffer as ArrayBuffer]);
         break;
       }
       case 'timing': {

@@ -28,7 +28,6 @@ import {
   ewaldWeighStructureFactor,
 } from '../../engine/ewald/ewald';
 import type { EwaldOptions } from '../../engine/ewald/params';
-import { kernelTableSeed } from '../../engine/ewald/kernelTable';
 import { kernelModule } from '../../engine/wasm/module';
 import type { WorkerReply, WorkerRequest } from './parallelProtocol';
 import { PhaseClock, phaseLines, phaseTotals, threadTimes, timingEnabled } from './phaseTiming';
@@ -74,15 +73,13 @@ function setupShared(s: EwaldSetup): EwaldSetup {
 }
 
 const WORKER_URL = new URL('./forceWorker.mjs', import.meta.url);
-/** Workers started ahead; tableReplyPending: the worker whose kernel-table reply has not come yet. */
+/** Workers started ahead. */
 interface WarmPool {
   url: string;
   workers: Worker[];
-  tableReplyPending: Worker | null;
   broken: boolean;
 }
 let warm: WarmPool | null = null;
-const TABLE_PREBUILD_U = 28;
 let warmClock: PhaseClock | null = null;
 
 /**
@@ -102,21 +99,13 @@ export function ewaldThreadsWarm(threads: number, workerUrl: URL = WORKER_URL): 
   }
   if (threads <= 1 || warm) return;
   const workers = Array.from({ length: threads - 1 }, () => workerStart(workerUrl));
-  // The first worker builds the kernel table meanwhile (it depends on u = (α r_c)² only up to its
-  // length; TABLE_PREBUILD_U covers tol ≥ 1e-9 or so); its reply seeds this thread's table cache.
-  const record: WarmPool = { url: workerUrl.href, workers, tableReplyPending: workers[0], broken: false };
+  const record: WarmPool = { url: workerUrl.href, workers, broken: false };
   for (const w of workers) {
     // A worker that fails or stops before it is used is replaced by a fresh one when the pool is made.
     w.on('error', () => (record.broken = true));
     w.on('exit', () => (record.broken = true));
     w.unref();
   }
-  workers[0].once('message', (r: WorkerReply) => {
-    record.tableReplyPending = null;
-    if (r.type === 'table') kernelTableSeed(r.coef);
-    if (timingEnabled()) process.stderr.write(`timing main kernel table from worker 0 at ${performance.now().toFixed(1)} ms\n`);
-  });
-  workers[0].postMessage({ type: 'table', uMax: TABLE_PREBUILD_U } satisfies WorkerRequest);
   warm = record;
 }
 
@@ -128,15 +117,15 @@ function workerStart(url: URL): Worker {
   return new Worker(url, { workerData: { kernelModule: kernelModule() } });
 }
 
-function warmTake(count: number, url: URL): Pick<WarmPool, 'workers' | 'tableReplyPending'> {
+function warmTake(count: number, url: URL): Worker[] {
   const w = warm;
   warm = null;
-  if (!w) return { workers: [], tableReplyPending: null };
+  if (!w) return [];
   if (w.url !== url.href || w.workers.length !== count || w.broken) {
     for (const x of w.workers) void x.terminate();
-    return { workers: [], tableReplyPending: null };
+    return [];
   }
-  return w;
+  return w.workers;
 }
 
 /** Workers with a FIFO of pending replies each (a worker answers its messages in order). */
@@ -145,13 +134,11 @@ class Pool {
   private pending: { resolve: (r: WorkerReply) => void; reject: (e: Error) => void }[][] = [];
 
   constructor(count: number, url: URL) {
-    const { workers: ready, tableReplyPending } = warmTake(count, url);
+    const ready = warmTake(count, url);
     for (let i = 0; i < count; i++) {
       const w = ready[i] ?? workerStart(url);
       w.ref();
       const queue: (typeof this.pending)[number] = [];
-      // A table reply still to come is answered first (its own listener seeds the cache).
-      if (w === tableReplyPending) queue.push({ resolve: () => undefined, reject: () => undefined });
       w.on('message', (r: WorkerReply) => {
         const p = queue.shift();
         if (!p) return;

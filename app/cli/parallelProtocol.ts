@@ -17,8 +17,6 @@ export type WorkerRequest =
   | { type: 'fourier'; begin: number; end: number }
   | { type: 'cells'; begin: number; end: number }
   | { type: 'collect' }
-  /** Build the kernel table up to u = uMax and send its coefficients (done while the snapshot is read). */
-  | { type: 'table'; uMax: number }
   | { type: 'timing' };
 
 export type WorkerReply =
@@ -27,5 +25,4 @@ export type WorkerReply =
   | { type: 'structure'; s: Float64Array }
   | { type: 'collected'; accSorted: Float64Array; phiSorted: Float64Array }
   | { type: 'timing'; records: PhaseRecord[] }
-  | { type: 'table'; coef: Float64Array }
   | { type: 'error'; message: string };
