@@ -5,6 +5,7 @@
  * [P0..P5, Q0..Q5] so one interval is one 96-byte read. No erfc or exp call per pair.
  */
 import { ewaldForceP, ewaldPotQ } from '../special/erf';
+import { base64Bytes, LITTLE_ENDIAN } from '../util/base64';
 import { KERNEL_TABLE_SHIPPED_BASE64, KERNEL_TABLE_SHIPPED_PER_UNIT } from './kernelTableData';
 
 export const KERNEL_DEGREE = 5;
@@ -54,11 +55,10 @@ function chebyshevMonomials(samples: number[]): number[] {
 const built = new Map<number, Float64Array>();
 
 function shippedTable(): Float64Array {
-  const bytes = Uint8Array.from(atob(KERNEL_TABLE_SHIPPED_BASE64), (c) => c.charCodeAt(0));
+  const bytes = base64Bytes(KERNEL_TABLE_SHIPPED_BASE64);
+  if (LITTLE_ENDIAN) return new Float64Array(bytes.buffer);
   const view = new DataView(bytes.buffer);
-  const coef = new Float64Array(bytes.length / 8);
-  for (let i = 0; i < coef.length; i++) coef[i] = view.getFloat64(8 * i, true);
-  return coef;
+  return Float64Array.from({ length: bytes.length / 8 }, (_, i) => view.getFloat64(8 * i, true));
 }
 
 function longestBuilt(perUnit: number): Float64Array | undefined {

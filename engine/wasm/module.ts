@@ -3,6 +3,7 @@
  * unavailable or disabled (globalThis.TORUSGRAV_NO_WASM = true, or env TORUSGRAV_NO_WASM=1 in Node), and
  * callers then use the JavaScript twins of the kernels.
  */
+import { base64Bytes } from '../util/base64';
 import { KERNELS_WASM_BASE64 } from './kernelsBinary';
 
 export interface KernelExports {
@@ -18,19 +19,12 @@ function disabled(): boolean {
   return g.TORUSGRAV_NO_WASM === true || g.process?.env?.TORUSGRAV_NO_WASM === '1';
 }
 
-function decodeBase64(b64: string): Uint8Array<ArrayBuffer> {
-  const bin = atob(b64);
-  const bytes = new Uint8Array(new ArrayBuffer(bin.length));
-  for (let i = 0; i < bin.length; i++) bytes[i] = bin.charCodeAt(i);
-  return bytes;
-}
-
 /** The compiled kernel module, or null when WebAssembly SIMD cannot be used here. */
 export function kernelModule(): WebAssembly.Module | null {
   if (disabled()) return null;
   if (cached !== undefined) return cached;
   try {
-    const bytes = decodeBase64(KERNELS_WASM_BASE64);
+    const bytes = base64Bytes(KERNELS_WASM_BASE64);
     cached = WebAssembly.validate(bytes) ? new WebAssembly.Module(bytes) : null;
   } catch {
     cached = null;
