@@ -40,8 +40,9 @@ export function defaultThreads(): number {
 /** Runs below this many particles stay on one thread. */
 const THREADED_MIN_PARTICLES = 2048;
 
-/** A copy of a typed array in shared memory (crosses to workers without copying). */
+/** The typed array in shared memory (crosses to workers without copying): itself when it already is, else a copy. */
 function shared<T extends Float64Array | Int32Array>(a: T): T {
+  if (a.buffer instanceof SharedArrayBuffer && a.byteOffset === 0 && a.byteLength === a.buffer.byteLength) return a;
   const buf = new SharedArrayBuffer(a.byteLength);
   const out = (a instanceof Float64Array ? new Float64Array(buf) : new Int32Array(buf)) as T;
   out.set(a);
@@ -253,7 +254,7 @@ export async function ewaldForcesThreads(
   const pool = new Pool(threads - 1, workerUrl);
   let setup: EwaldSetup;
   try {
-    setup = ewaldSetup(positions, masses, box, options, all ? n : tg.length);
+    setup = ewaldSetup(positions, masses, box, { ...options, sharedMemory: true }, all ? n : tg.length);
   } catch (e) {
     pool.close();
     throw e;

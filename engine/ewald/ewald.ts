@@ -123,11 +123,13 @@ export function ewaldSetup(
 ): EwaldSetup {
   boxMake(box.lx, box.ly, box.lz); // throws a RangeError naming a side that is not > 0
   if (!checked) particlesValidate(positions, masses);
-  const wrappedPositions = new Float64Array(positions);
+  const shared = options.sharedMemory === true;
+  const wrappedPositions = shared ? new Float64Array(new SharedArrayBuffer(positions.byteLength)) : new Float64Array(positions.length);
+  wrappedPositions.set(positions);
   const wrapped = positionsWrap(wrappedPositions, box);
   const chosen = ewaldParamsChoose(wrappedPositions, masses, box, options, targetCount, checked?.clustering);
   const rLoop = Math.max(chosen.rCut, chosen.rSoft);
-  const cells = cellListBuild(wrappedPositions, masses, box, chosen.cells, rLoop);
+  const cells = cellListBuild(wrappedPositions, masses, box, chosen.cells, rLoop, shared);
   if (chosen.softening.kind === 'none' && !checked) {
     const pair = cellListFindCoincident(cells);
     if (pair) {

@@ -25,6 +25,8 @@ export interface EwaldOptions {
   readonly kCut?: number;
   /** Softening kernel (default none). */
   readonly softening?: Softening;
+  /** Keep the wrapped positions and the cell list in SharedArrayBuffers (for threads; default false). */
+  readonly sharedMemory?: boolean;
 }
 
 export interface EwaldParams {
