@@ -4,7 +4,7 @@
  * expected time from the engine's own cost model.
  */
 import type { Box } from '../../../engine/box';
-import { pmeSetup } from '../../../engine/pme/pme';
+import { pmeChoose } from '../../../engine/pme/pme';
 import type { PmeOptions, PmeParams } from '../../../engine/pme/pmeParams';
 import type { MethodPlan } from './methodPlan';
 import type { PmeMethodOptions } from './moreOptions';
@@ -18,11 +18,11 @@ import type { PmeMethodOptions } from './moreOptions';
 export const PME_COST = { factor: 1.05, setupNs: 300e6, perParticleNs: 2000 } as const;
 
 /**
- * The parameters pmeForces will use: those of the engine's own setup (the same clustering measure,
- * error model and choice; its tables are built and dropped — the engine has no choice-only entry yet).
+ * The parameters pmeForces will use: the first half of the engine's own setup (pmeChoose: the same
+ * clustering measure, error model and choice; no cell list or tables are built).
  */
 export function pmeParamsPlan(positions: Float64Array, masses: Float64Array, box: Box, options: PmeOptions): PmeParams {
-  return pmeSetup(positions, masses, box, options).params;
+  return pmeChoose(positions, masses, box, options).params;
 }
 
 /** Expected one-core time (ns) of a run with these parameters on n particles. */
