@@ -39,6 +39,8 @@ export interface PmeShared {
   /** Sorted-particle offsets of the spreading blocks (even count), or null for spreadAll. */
   readonly cuts: Int32Array | null;
   readonly scratch: ReturnType<typeof pmeScratch>;
+  /** Stop flag (shared): once stop[0] ≠ 0 no thread takes another unit (set by whoever cancels the run). */
+  readonly stop?: Int32Array;
 }
 
 /** Work units of a phase and the call that runs unit k. */
@@ -74,13 +76,15 @@ function phaseWork(s: PmeShared, phase: PmePhase): { units: number; run: (k: num
 }
 
 /**
- * Takes units of `phase` from its shared counter until none are left; onUnit(done, total) after each
+ * Takes units of `phase` from its shared counter until none are left (or the stop flag is set: the run is
+ * then abandoned, its results incomplete); onUnit(done, total) after each
  * unit this thread ran (done = units handed out so far, over all threads). Returns the units this thread ran.
  */
 export function pmePhaseRun(s: PmeShared, phase: PmePhase, onUnit?: (done: number, total: number) => void): number {
   const { units, run } = phaseWork(s, phase);
   const c = PME_PHASES.indexOf(phase);
   for (let ran = 0; ; ran++) {
+    if (s.stop && Atomics.load(s.stop, 0) !== 0) return ran;
     const k = Atomics.add(s.counters, c, 1);
     if (k >= units) return ran;
     run(k);

@@ -32,6 +32,8 @@ export interface PmeSetupMessage {
   readonly phi: SharedArrayBuffer;
   readonly counters: SharedArrayBuffer;
   readonly cuts: SharedArrayBuffer | null;
+  /** The run's stop flag (one Int32), when the coordinator was given one. */
+  readonly stop?: SharedArrayBuffer;
 }
 
 /** The typed array's bytes in shared memory: its own buffer when it already is one (whole), else a copy. */
@@ -126,6 +128,7 @@ export function pmeSharedStart(
   threads: number,
   helpers: boolean,
   buffers: PmeSharedBuffers = pmeSharedBuffers(pmeMeshLength(setup), masses.length),
+  stop?: SharedArrayBuffer,
 ): { mine: PmeShared; message: PmeSetupMessage | null } {
   const { mesh, acc, phi } = buffers;
   if (mesh.byteLength !== 8 * pmeMeshLength(setup) || acc.byteLength !== 24 * masses.length) throw new RangeError('pmeSharedStart: buffers of another size');
@@ -140,6 +143,7 @@ export function pmeSharedStart(
     counters: new Int32Array(counters),
     cuts: cuts ? new Int32Array(cuts) : null,
     scratch: pmeScratch(setup),
+    stop: stop ? new Int32Array(stop) : undefined,
   };
   const message: PmeSetupMessage | null = helpers
     ? {
@@ -154,6 +158,7 @@ export function pmeSharedStart(
         phi,
         counters,
         cuts,
+        stop,
       }
     : null;
   return { mine, message };
@@ -170,5 +175,6 @@ export function pmeSharedJoin(msg: PmeSetupMessage): PmeShared {
     counters: new Int32Array(msg.counters),
     cuts: msg.cuts ? new Int32Array(msg.cuts) : null,
     scratch: pmeScratch(setup),
+    stop: msg.stop ? new Int32Array(msg.stop) : undefined,
   };
 }

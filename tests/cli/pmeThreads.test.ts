@@ -8,7 +8,8 @@ import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { pmeForcesThreads } from '../../app/cli/parallelPme';
-import { pagesTouch, pagesTouchUnits } from '../../app/common/pmeShared';
+import { pmePhaseRun } from '../../app/common/pmePhases';
+import { pagesTouch, pagesTouchUnits, pmeSharedStart } from '../../app/common/pmeShared';
 import { pmeForces, pmeMeshLength, pmeMeshLengthOf, pmeSetup } from '../../engine/pme/index';
 import { snapshotClustered } from '../helpers/snapshots';
 import { maxScalarErrorOverRms, maxVectorRelativeError } from '../helpers/tolerance';
@@ -48,5 +49,19 @@ describe('paging in the shared buffers ahead of a run', () => {
     const s = snapshotClustered(3000, 2, [1, 1.5, 0.7]);
     const setup = pmeSetup(s.positions, s.masses, s.box, { tol: 1e-5 });
     expect(pmeMeshLengthOf(setup.params)).toBe(pmeMeshLength(setup));
+  });
+});
+
+describe('the stop flag of a shared run', () => {
+  it('a thread takes no unit once the flag is set, and all of them while it is clear', () => {
+    const s = snapshotClustered(3000, 3, [1, 1, 1]);
+    const setup = pmeSetup(s.positions, s.masses, s.box, { tol: 1e-4 });
+    const stop = new SharedArrayBuffer(4);
+    const { mine, message } = pmeSharedStart(setup, s.masses, s.box, 2, true, undefined, stop);
+    expect(message!.stop).toBe(stop); // helpers get the same flag
+    new Int32Array(stop)[0] = 1;
+    expect(pmePhaseRun(mine, 'interpolate')).toBe(0);
+    new Int32Array(stop)[0] = 0;
+    expect(pmePhaseRun(mine, 'interpolate')).toBeGreaterThan(0);
   });
 });
