@@ -13,6 +13,7 @@ import { appReset, appStore } from './state/store';
 import { computeClientCreate } from './worker/client';
 import { planClientSet } from './state/planOffThread';
 import { computeSpawnFor, testHooksWanted } from './testHooks';
+import { viewFrameLog } from './view3d/scene';
 import { planClientCreate } from './worker/planClient';
 import { planSpawn } from './worker/planSpawn';
 import { serviceWorkerRegister } from './offline/swRegister';
@@ -32,7 +33,10 @@ async function start(): Promise<void> {
   const shared = query.toString() ? `?${query}` : '';
   const draft = shared ? draftFromQuery(shared, stored ?? DEFAULT_DRAFT) : (stored ?? DEFAULT_DRAFT);
   appReset(draft);
-  computeClientSet(computeClientCreate(computeSpawnFor(testHooksWanted(window.location.search))));
+  const hooks = testHooksWanted(window.location.search);
+  computeClientSet(computeClientCreate(computeSpawnFor(hooks)));
+  // the 3D view's recent frames (points drawn, wait for the pixels), for the responsiveness test
+  if (hooks) (window as unknown as { __viewFrames: unknown }).__viewFrames = viewFrameLog;
   planClientSet(planClientCreate(planSpawn));
   serviceWorkerRegister();
   createRoot(document.getElementById('root')!).render(

@@ -16,12 +16,21 @@ export function MappingDialog() {
   const first = useRef<HTMLSelectElement>(null);
   useEffect(() => {
     if (!step) return;
-    first.current?.focus();
+    // focus once the dialog has been laid out and painted: focusing in the effect forced a layout of the
+    // whole dialog inside the task that rendered it (which a worker's message started), ~100 ms in one task
+    let timer = 0;
+    const frame = requestAnimationFrame(() => {
+      timer = window.setTimeout(() => first.current?.focus({ preventScroll: true }), 0);
+    });
     const onKey = (e: KeyboardEvent) => {
       if (e.key === 'Escape') mappingCancel();
     };
     window.addEventListener('keydown', onKey);
-    return () => window.removeEventListener('keydown', onKey);
+    return () => {
+      cancelAnimationFrame(frame);
+      clearTimeout(timer);
+      window.removeEventListener('keydown', onKey);
+    };
   }, [step?.description]);
   if (!step) return null;
   const d = step.description;
