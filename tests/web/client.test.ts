@@ -1,5 +1,5 @@
 import { MessageChannel, type MessagePort } from 'node:worker_threads';
-import { afterEach, describe, expect, test } from 'vitest';
+import { afterEach, describe, expect, test, vi } from 'vitest';
 import { boxMake } from '../../engine/box';
 import { demoSnapshot } from '../../engine/demo/demoSnapshot';
 import { ewaldForces } from '../../engine/ewald/ewald';
@@ -182,6 +182,36 @@ describe('computeClientCreate over a real message channel and handleRequest', ()
     expect(Array.from(out.phi!)).toEqual(Array.from(ref.phi));
     expect(out.ewald!.predictedRelativeError).toBe(ref.params.predictedRelativeError);
     expect(seen[seen.length - 1]).toBe(1);
+    client.dispose();
+  });
+});
+
+describe('the stop flag of a request (cross-origin isolated pages)', () => {
+  afterEach(() => vi.unstubAllGlobals());
+
+  test('each request carries its own shared flag, which Cancel sets before terminating the worker', () => {
+    vi.stubGlobal('crossOriginIsolated', true);
+    const { workers, spawn } = fakeSpawner();
+    const client = computeClientCreate(spawn);
+    void client.run(body()).catch(() => undefined);
+    const stop = workers[0].requests[0].request.stop!;
+    expect(stop).toBeInstanceOf(SharedArrayBuffer);
+    expect(new Int32Array(stop)[0]).toBe(0);
+    expect(workers[0].requests[0].transfer).not.toContain(stop);
+    client.cancel();
+    expect(new Int32Array(stop)[0]).toBe(1);
+    expect(workers[0].terminated).toBe(true);
+    void client.run(body()).catch(() => undefined); // the next request has a fresh, clear flag
+    expect(new Int32Array(workers[1].requests[0].request.stop!)[0]).toBe(0);
+    client.dispose();
+  });
+
+  test('without cross-origin isolation no flag is sent', () => {
+    vi.stubGlobal('crossOriginIsolated', false);
+    const { workers, spawn } = fakeSpawner();
+    const client = computeClientCreate(spawn);
+    void client.run(body()).catch(() => undefined);
+    expect(workers[0].requests[0].request.stop).toBeUndefined();
     client.dispose();
   });
 });

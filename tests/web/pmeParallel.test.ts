@@ -85,6 +85,15 @@ describe('parallel PME in the compute worker (fake helpers, real handler)', () =
     expect(fractions.at(-1)).toBe(1);
   });
 
+  it('a stop flag set (Cancel) makes every thread skip its units and the run fail, helpers terminated', async () => {
+    const log: FakeLog = { requests: [], terminated: 0 };
+    const stop = new SharedArrayBuffer(4);
+    new Int32Array(stop)[0] = 1;
+    await expect(pmeForcesParallel(snap.positions, snap.masses, box, OPTIONS, 2, undefined, fakeSpawn(log, 'now'), stop)).rejects.toThrow(/stopped/);
+    expect(log.requests).not.toContain('collect');
+    expect(log.terminated).toBe(1);
+  });
+
   it('helpers that answer later leave the work here: same result; three threads likewise', async () => {
     const log: FakeLog = { requests: [], terminated: 0 };
     const r = await pmeForcesParallel(snap.positions, snap.masses, box, OPTIONS, 3, undefined, fakeSpawn(log, 'later'));

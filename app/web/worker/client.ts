@@ -52,9 +52,16 @@ export interface ComputeClient {
 
 interface Pending {
   readonly id: number;
+  readonly stop?: SharedArrayBuffer;
   readonly resolve: (outcome: Outcome) => void;
   readonly reject: (error: Error) => void;
   readonly onProgress?: (fraction: number) => void;
+}
+
+/** A fresh stop flag where shared memory can be posted (a cross-origin isolated page), else undefined. */
+function stopFlagMake(): SharedArrayBuffer | undefined {
+  const g = globalThis as { crossOriginIsolated?: boolean };
+  return typeof SharedArrayBuffer === 'function' && g.crossOriginIsolated === true ? new SharedArrayBuffer(4) : undefined;
 }
 
 /** Creates a client over workers made by `spawn` (one alive at a time, started right away). */
@@ -117,6 +124,7 @@ export function computeClientCreate(spawn: WorkerSpawn): ComputeClient {
   function cancel(): boolean {
     const p = settle();
     if (!p) return false;
+    if (p.stop) Atomics.store(new Int32Array(p.stop), 0, 1); // the worker's helpers see it before the worker is gone
     restart();
     p.reject(new CancelledError());
     return true;
@@ -130,9 +138,10 @@ export function computeClientCreate(spawn: WorkerSpawn): ComputeClient {
       cancel();
       port ??= start();
       const id = nextId++;
+      const stop = stopFlagMake();
       return new Promise<Outcome>((resolve, reject) => {
-        pending = { id, resolve, reject, onProgress };
-        const request = { ...body, id } as WorkerRequest;
+        pending = { id, stop, resolve, reject, onProgress };
+        const request = { ...body, id, ...(stop ? { stop } : {}) } as WorkerRequest;
         try {
           port!.post(request, transferables(body));
         } catch (e) {
@@ -144,7 +153,9 @@ export function computeClientCreate(spawn: WorkerSpawn): ComputeClient {
     cancel,
     busy: () => pending !== null,
     dispose() {
-      settle()?.reject(new CancelledError());
+      const p = settle();
+      if (p?.stop) Atomics.store(new Int32Array(p.stop), 0, 1);
+      p?.reject(new CancelledError());
       disposed = true;
       port?.terminate();
       port = null;

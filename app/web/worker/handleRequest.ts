@@ -27,7 +27,7 @@ export function progressThrottle(send: (fraction: number) => void, step: number 
 }
 
 /** Runs one request body to its payload (synchronous engine calls; reading a file may be asynchronous). */
-export async function requestRun(request: RequestBody, progress: (fraction: number) => void): Promise<ResultPayload> {
+export async function requestRun(request: RequestBody, progress: (fraction: number) => void, stop?: SharedArrayBuffer): Promise<ResultPayload> {
   switch (request.type) {
     case 'demo': {
       const d = demoSnapshot(request.n, request.seed);
@@ -96,7 +96,7 @@ export async function requestRun(request: RequestBody, progress: (fraction: numb
     case 'order':
     case 'orderTrace':
     case 'pme':
-      return methodRequestRun(request, progress);
+      return methodRequestRun(request, progress, stop);
     default:
       throw Object.assign(new Error(`unknown request type ${JSON.stringify((request as { type?: unknown })?.type)}`), { name: 'RequestError' });
   }
@@ -117,7 +117,7 @@ export async function handleRequest(request: WorkerRequest, post: Post, now: () 
   try {
     const t0 = now();
     const progress = progressThrottle((fraction) => post({ type: 'progress', id, fraction }, []));
-    const payload = await requestRun(request, progress);
+    const payload = await requestRun(request, progress, request.stop);
     post({ type: 'result', id, payload, workerMs: now() - t0 }, payloadTransferables(payload));
   } catch (e) {
     const err = e instanceof Error ? e : new Error(String(e));

@@ -150,21 +150,21 @@ export function pmeRun(r: PmeRequest, progress: Progress): MethodForcesPayload {
 }
 
 /** PME for every particle, on helper workers too where shared memory allows (pmeParallel.ts), then the targets' rows. */
-export async function pmeRunThreads(r: PmeRequest, progress: Progress): Promise<MethodForcesPayload> {
+export async function pmeRunThreads(r: PmeRequest, progress: Progress, stop?: SharedArrayBuffer): Promise<MethodForcesPayload> {
   const threads = pmeThreadsChoose(r.threads, r.masses.length, pmeThreadsEnvHere());
   if (threads <= 1) return pmeRun(r, progress);
-  const res = await pmeForcesParallel(r.positions, r.masses, r.box, r.options, threads, progress);
+  const res = await pmeForcesParallel(r.positions, r.masses, r.box, r.options, threads, progress, undefined, stop);
   return pmePayload(r, res, res.threadsUsed);
 }
 
 /** Runs one of this file's requests to its payload (PME asynchronously: it waits for its helpers). */
-export function methodRequestRun(r: MethodRequest, progress: Progress): MethodPayload | Promise<MethodPayload> {
+export function methodRequestRun(r: MethodRequest, progress: Progress, stop?: SharedArrayBuffer): MethodPayload | Promise<MethodPayload> {
   switch (r.type) {
     case 'order':
       return orderRun(r, progress);
     case 'orderTrace':
       return orderTraceRun(r, progress);
     case 'pme':
-      return pmeRunThreads(r, progress);
+      return pmeRunThreads(r, progress, stop);
   }
 }

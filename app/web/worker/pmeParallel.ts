@@ -6,8 +6,9 @@
  * (app/common/pmePhases.ts), with the helpers' replies as the barrier after each; the helpers' real-space
  * sums are added here and pmeFinalize runs here. Helpers are started per run and terminated after it.
  * Without cross-origin isolation (no SharedArrayBuffer) the run stays on this thread (pmeForces).
- * Cancel terminates the compute worker; the browser ends its nested helpers too, but only once each has
- * finished the phase it is in (up to a few seconds of wasted work; no leak).
+ * Cancel sets the request's stop flag (shared) and terminates the compute worker; every thread checks the
+ * flag before each unit of work, so the nested helpers stop within a unit instead of finishing their
+ * phase (the browser ends them with the compute worker).
  */
 import type { Box } from '../../../engine/box';
 import type { Progress } from '../../../engine/ewald/ewald';
@@ -85,8 +86,6 @@ class Helper {
   private readonly port: PmeHelperPort;
   private pending: { type: PmeHelperRequest['type']; resolve: (r: PmeHelperReply) => void; reject: (e: Error) => void } | null = null;
   private failed: Error | null = null;
-  /** Its setup is done (known at once, not a microtask later, so that phases go out without delay). */
-  setUp = false;
 
   constructor(spawn: PmeHelperSpawn) {
     this.port = spawn(
@@ -94,7 +93,6 @@ class Helper {
         const p = this.pending;
         this.pending = null;
         if (r.type === 'error') return p?.reject(new Error(`PME helper: ${r.message}`));
-        if (p?.type === 'setup') this.setUp = true;
         p?.resolve(r);
       },
       (message) => {
@@ -137,6 +135,7 @@ export async function pmeForcesParallel(
   threads: number,
   onProgress?: Progress,
   spawn: PmeHelperSpawn = pmeHelperSpawn,
+  stop?: SharedArrayBuffer,
 ): Promise<PmeParallelResult> {
   if (threads <= 1) return { ...pmeForces(positions, masses, box, options, onProgress), threadsUsed: 1 };
   // helpers load their module while the parameters are chosen here
@@ -144,27 +143,29 @@ export async function pmeForcesParallel(
   try {
     const setup = pmeSetup(positions, masses, box, options);
     onProgress?.(0.05);
-    const { mine, message: setupMsg } = pmeSharedStart(setup, masses, box, threads, true);
-    // true once set up, false if it failed before: such a helper never took a unit and is left out
-    const ready = helpers.map((h) => h.send(setupMsg!).then(() => true, () => false));
+    const { mine, message: setupMsg } = pmeSharedStart(setup, masses, box, threads, true, undefined, stop);
+    // true once set up, false if it failed before: such a helper never takes a unit and is left out. The
+    // helpers loaded while the parameters were chosen; their setup takes them a moment, and every phase is
+    // then posted to them before this thread runs its own (synchronous) share of it.
+    const ready = await Promise.all(helpers.map((h) => h.send(setupMsg!).then(() => true, () => false)));
     const stage = async (list: PmePhase[], from: number, to: number) => {
       const msg: PmeHelperRequest = { type: 'phases', phases: list };
-      const replies = helpers.map((h, i) => (h.setUp ? h.send(msg) : ready[i].then((ok) => (ok ? h.send(msg) : null))));
+      const replies = helpers.map((h, i) => (ready[i] ? h.send(msg) : null));
       for (const p of list) pmePhaseRun(mine, p, p === 'real' ? (done, total) => onProgress?.(from + ((to - from) * done) / total) : undefined);
       await Promise.all(replies);
       onProgress?.(to);
     };
-    // the first spreading phase starts here while the helpers build their setups (they join when ready)
     await stage(['spreadEven'], 0.05, 0.08);
     await stage(['spreadOdd', 'spreadAll'], 0.08, 0.12);
     await stage(['forward'], 0.12, 0.17);
     await stage(['solve'], 0.17, 0.21);
     await stage(['inverse'], 0.21, 0.26);
     await stage(['interpolate', 'real'], 0.26, 0.97);
+    if (mine.stop && Atomics.load(mine.stop, 0) !== 0) throw new Error('PME run stopped (cancelled)'); // units were skipped
     pmeRealCollect(setup, mine.accSorted, mine.phiSorted);
     let used = 1;
     for (let i = 0; i < helpers.length; i++) {
-      if (!(await ready[i])) continue;
+      if (!ready[i]) continue;
       const r = await helpers[i].send({ type: 'collect' });
       if (r.type !== 'collected') throw new Error('PME helper: unexpected reply to collect');
       for (let k = 0; k < r.acc.length; k++) mine.accSorted[k] += r.acc[k];

@@ -64,7 +64,12 @@ export interface DemoRequest {
 }
 
 export type RequestBody = DemoRequest | EwaldRequest | MeshRequest | SweepRequest | NeighboursRequest | CompareRequest | DescribeRequest | LoadRequest | MethodRequest;
-export type WorkerRequest = RequestBody & { readonly id: number };
+/**
+ * A request as posted: its body, an id, and (on a cross-origin isolated page) a stop flag, one Int32 in
+ * shared memory that the page sets before it terminates the worker on Cancel, so that helper workers
+ * the compute worker started stop at their next unit of work instead of finishing their phase.
+ */
+export type WorkerRequest = RequestBody & { readonly id: number; readonly stop?: SharedArrayBuffer };
 
 export interface ForcesPayload {
   readonly kind: 'forces';
