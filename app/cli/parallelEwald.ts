@@ -30,6 +30,7 @@ import {
 import type { EwaldOptions } from '../../engine/ewald/params';
 import { kernelModule } from '../../engine/wasm/module';
 import type { WorkerReply, WorkerRequest } from './parallelProtocol';
+import { sharedArray } from '../common/sharedMemory';
 import { PhaseClock, phaseLines, phaseTotals, threadTimes, timingEnabled } from './phaseTiming';
 
 /** Default thread count: all cores. */
@@ -40,32 +41,23 @@ export function defaultThreads(): number {
 /** Runs below this many particles stay on one thread. */
 const THREADED_MIN_PARTICLES = 2048;
 
-/** The typed array in shared memory (crosses to workers without copying): itself when it already is, else a copy. */
-function shared<T extends Float64Array | Int32Array>(a: T): T {
-  if (a.buffer instanceof SharedArrayBuffer && a.byteOffset === 0 && a.byteLength === a.buffer.byteLength) return a;
-  const buf = new SharedArrayBuffer(a.byteLength);
-  const out = (a instanceof Float64Array ? new Float64Array(buf) : new Int32Array(buf)) as T;
-  out.set(a);
-  return out;
-}
-
 /** The setup with its arrays in shared memory and without this thread's WebAssembly contexts. */
 function setupShared(s: EwaldSetup): EwaldSetup {
   const { cells, kernel, kspace } = s;
   return {
     ...s,
-    positions: shared(s.positions),
-    masses: shared(s.masses),
-    cells: { ...cells, xyzm: shared(cells.xyzm), order: shared(cells.order), slot: shared(cells.slot), start: shared(cells.start), stencil: shared(cells.stencil) },
-    kernel: { ...kernel, table: { ...kernel.table, coef: shared(kernel.table.coef) } },
+    positions: sharedArray(s.positions),
+    masses: sharedArray(s.masses),
+    cells: { ...cells, xyzm: sharedArray(cells.xyzm), order: sharedArray(cells.order), slot: sharedArray(cells.slot), start: sharedArray(cells.start), stencil: sharedArray(cells.stencil) },
+    kernel: { ...kernel, table: { ...kernel.table, coef: sharedArray(kernel.table.coef) } },
     kspace: {
       ...kspace,
-      colHx: shared(kspace.colHx),
-      colHy: shared(kspace.colHy),
-      colHz0: shared(kspace.colHz0),
-      colHz1: shared(kspace.colHz1),
-      colK0: shared(kspace.colK0),
-      weight: shared(kspace.weight),
+      colHx: sharedArray(kspace.colHx),
+      colHy: sharedArray(kspace.colHy),
+      colHz0: sharedArray(kspace.colHz0),
+      colHz1: sharedArray(kspace.colHz1),
+      colK0: sharedArray(kspace.colK0),
+      weight: sharedArray(kspace.weight),
     },
     kWasm: undefined,
     rWasm: undefined,
@@ -265,7 +257,7 @@ export async function ewaldForcesThreads(
   const phiBuf = new SharedArrayBuffer(8 * K);
   try {
     const plain = setupShared(setup);
-    const tgShared = shared(tg);
+    const tgShared = sharedArray(tg);
     const ready = Array.from({ length: pool.size }, (_, i) => pool.send(i, { type: 'setup', setup: plain, targets: tgShared.buffer as SharedArrayBuffer, acc: accBuf, phi: phiBuf }));
     // Structure factor: source range 0 here, range i + 1 on worker i; summed here while the workers go on.
     const range = (r: number) => [Math.floor((r * n) / threads), Math.floor(((r + 1) * n) / threads)];
@@ -277,7 +269,7 @@ export async function ewaldForcesThreads(
     const weightedReady = Promise.all(parts).then((replies) => {
       const s = sHere;
       for (const r of replies) if (r.type === 'structure') for (let k = 0; k < s.length; k++) s[k] += r.s[k];
-      const weighted = shared(ewaldWeighStructureFactor(setup, s));
+      const weighted = sharedArray(ewaldWeighStructureFactor(setup, s));
       weightedHere = weighted;
       // Queued behind each worker's current tasks, so before any Fourier task it is given.
       for (let i = 0; i < pool.size; i++) pool.send(i, { type: 'weighted', weighted: weighted.buffer as SharedArrayBuffer }).catch(() => undefined);

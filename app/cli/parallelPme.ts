@@ -26,7 +26,8 @@ import {
   pmeSetupBuild,
 } from '../../engine/pme/index';
 import { type PmePhase, pmePhaseRun } from '../common/pmePhases';
-import { type PmeSetupMessage, pagesTouch, pmeSharedBuffers, pmeSharedStart } from '../common/pmeShared';
+import { type PmeSetupMessage, pmeSharedBuffers, pmeSharedStart } from '../common/pmeShared';
+import { pagesTouch } from '../common/sharedMemory';
 
 /**
  * Largest automatic mesh on the command line (points): 10^8 (0.8 GB), larger than the engine's default

@@ -7,7 +7,8 @@ import { parentPort } from 'node:worker_threads';
 import { pmeRealCollect } from '../../engine/pme/index';
 import type { PmeWorkerReply, PmeWorkerRequest } from './parallelPme';
 import { type PmeShared, pmePhaseRun } from '../common/pmePhases';
-import { pagesTouch, pmeSharedJoin } from '../common/pmeShared';
+import { pmeSharedJoin } from '../common/pmeShared';
+import { pagesTouch } from '../common/sharedMemory';
 
 let shared: PmeShared | null = null;
 

@@ -16,6 +16,7 @@ import {
   pmeSpreadBlocks,
 } from '../../engine/pme/index';
 import { PME_PHASES, type PmeShared } from './pmePhases';
+import { sharedArray, sharedCopy } from './sharedMemory';
 
 /** What a helper needs to join a run (every big array in shared memory: posted without copying). */
 export interface PmeSetupMessage {
@@ -36,29 +37,11 @@ export interface PmeSetupMessage {
   readonly stop?: SharedArrayBuffer;
 }
 
-/** The typed array's bytes in shared memory: its own buffer when it already is one (whole), else a copy. */
-export function sharedCopy(a: Float64Array | Int32Array): SharedArrayBuffer {
-  if (a.buffer instanceof SharedArrayBuffer && a.byteOffset === 0 && a.byteLength === a.buffer.byteLength) return a.buffer;
-  const buf = new SharedArrayBuffer(a.byteLength);
-  new Uint8Array(buf).set(new Uint8Array(a.buffer, a.byteOffset, a.byteLength));
-  return buf;
-}
-
 /** The setup's cell list with its big arrays in shared memory (shared, not copied, when they already are), and its tables. */
 export function pmeReuseShared(setup: PmeSetup): PmeSetupShared {
   const c = setup.cells;
-  const view = <T extends Float64Array | Int32Array>(a: T, make: new (b: SharedArrayBuffer) => T): T => {
-    const b = sharedCopy(a);
-    return b === a.buffer ? a : new make(b);
-  };
   return {
-    cells: {
-      ...c,
-      xyzm: view(c.xyzm, Float64Array),
-      order: view(c.order, Int32Array),
-      slot: view(c.slot, Int32Array),
-      start: view(c.start, Int32Array),
-    },
+    cells: { ...c, xyzm: sharedArray(c.xyzm), order: sharedArray(c.order), slot: sharedArray(c.slot), start: sharedArray(c.start) },
     influence: setup.influence,
     selfForce: setup.selfForce,
   };
@@ -83,38 +66,6 @@ export interface PmeSharedBuffers {
 /** Fresh buffers for a mesh of `meshLength` numbers (pmeMeshLengthOf) and n particles. */
 export function pmeSharedBuffers(meshLength: number, n: number): PmeSharedBuffers {
   return { mesh: new SharedArrayBuffer(8 * meshLength), acc: new SharedArrayBuffer(24 * n), phi: new SharedArrayBuffer(8 * n) };
-}
-
-/** Bytes per unit of pagesTouch. */
-const TOUCH_BLOCK = 1 << 20;
-
-/** Units of pagesTouch over these buffers (1 MiB blocks). */
-export function pagesTouchUnits(buffers: readonly SharedArrayBuffer[]): number {
-  return buffers.reduce((s, b) => s + Math.ceil(b.byteLength / TOUCH_BLOCK), 0);
-}
-
-/**
- * Writes a zero into every 4 KiB page of the buffers (still all zero), taking 1 MiB blocks from
- * counter[0] until none are left: the operating system supplies fresh memory on first write, at
- * ~3 ms per MB on the project machine, and this lets an idle thread pay that ahead of time. Returns the
- * blocks this thread touched.
- */
-export function pagesTouch(buffers: readonly SharedArrayBuffer[], counter: Int32Array): number {
-  const total = pagesTouchUnits(buffers);
-  for (let ran = 0; ; ran++) {
-    let k = Atomics.add(counter, 0, 1);
-    if (k >= total) return ran;
-    for (const b of buffers) {
-      const blocks = Math.ceil(b.byteLength / TOUCH_BLOCK);
-      if (k >= blocks) {
-        k -= blocks;
-        continue;
-      }
-      const bytes = new Uint8Array(b, k * TOUCH_BLOCK, Math.min(TOUCH_BLOCK, b.byteLength - k * TOUCH_BLOCK));
-      for (let o = 0; o < bytes.length; o += 4096) bytes[o] = 0;
-      break;
-    }
-  }
 }
 
 /**

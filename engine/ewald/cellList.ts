@@ -4,6 +4,7 @@
  * lies within the cutoff, so cutoffs longer than the box (several images of one particle) are handled.
  */
 import { type Box, boxSides } from '../box';
+import { float64s, int32s } from '../util/arrays';
 
 export interface CellList {
   /** Cells per side. */
@@ -62,14 +63,6 @@ export function cellStencilSize(w: [number, number, number], rCut: number): numb
   return cellStencil(w, rCut).offsets.length / 3;
 }
 
-function floats(length: number, shared: boolean): Float64Array {
-  return shared ? new Float64Array(new SharedArrayBuffer(8 * length)) : new Float64Array(length);
-}
-
-function ints(length: number, shared: boolean): Int32Array {
-  return shared ? new Int32Array(new SharedArrayBuffer(4 * length)) : new Int32Array(length);
-}
-
 /**
  * Builds the cell list with n[d] cells per side. Positions must already lie in the home cell.
  * shared: the sorted arrays live in SharedArrayBuffers (for threads: posted without a copy).
@@ -80,7 +73,7 @@ export function cellListBuild(positions: Float64Array, masses: Float64Array, box
   const count = masses.length;
   const nCells = n[0] * n[1] * n[2];
   const cellOfParticle = new Int32Array(count);
-  const start = ints(nCells + 1, shared);
+  const start = int32s(nCells + 1, shared);
   for (let i = 0; i < count; i++) {
     const c =
       (cellOf(positions[3 * i], w[0], n[0]) * n[1] + cellOf(positions[3 * i + 1], w[1], n[1])) * n[2] +
@@ -90,9 +83,9 @@ export function cellListBuild(positions: Float64Array, masses: Float64Array, box
   }
   for (let c = 0; c < nCells; c++) start[c + 1] += start[c];
   const fill = start.slice(0, nCells);
-  const order = ints(count, shared);
-  const slot = ints(count, shared);
-  const xyzm = floats(4 * count, shared);
+  const order = int32s(count, shared);
+  const slot = int32s(count, shared);
+  const xyzm = float64s(4 * count, shared);
   for (let i = 0; i < count; i++) {
     const s = fill[cellOfParticle[i]]++;
     order[s] = i;

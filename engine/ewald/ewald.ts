@@ -7,6 +7,7 @@
  * ewaldSetup → ewaldStructureFactor (ranges of sources, summed) → ewaldTargetsChunk or
  * ewaldAllRealChunk + ewaldFourierChunk → ewaldFinalize. ewaldForces runs them all on one thread.
  */
+import { float64s } from '../util/arrays';
 import { type Box, boxMake, boxVolume, positionsWrap } from '../box';
 import { type CellList, cellListBuild, cellListCoordinates, cellListNeighbour } from './cellList';
 import { type KernelTable, kernelTableBuild } from './kernelTable';
@@ -124,7 +125,7 @@ export function ewaldSetup(
   boxMake(box.lx, box.ly, box.lz); // throws a RangeError naming a side that is not > 0
   if (!checked) particlesValidate(positions, masses);
   const shared = options.sharedMemory === true;
-  const wrappedPositions = shared ? new Float64Array(new SharedArrayBuffer(positions.byteLength)) : new Float64Array(positions.length);
+  const wrappedPositions = float64s(positions.length, shared);
   wrappedPositions.set(positions);
   const wrapped = positionsWrap(wrappedPositions, box);
   const chosen = ewaldParamsChoose(wrappedPositions, masses, box, options, targetCount, checked?.clustering);

@@ -12,6 +12,7 @@
  *   → pmeInterpolateChunk (sorted particles) and pmeRealChunk (cells) → pmeFinalize.
  * pmeForces runs them all on one thread.
  */
+import { float64s } from '../util/arrays';
 import { type Box, boxVolume, positionsWrap } from '../box';
 import { type CellList, cellListBuild } from '../ewald/cellList';
 import { EngineInputError, type Progress, particlesValidate } from '../ewald/ewald';
@@ -98,7 +99,7 @@ export function pmeMeshLengthOf(params: PmeParams): number {
 export function pmeChoose(positions: Float64Array, masses: Float64Array, box: Box, options: PmeOptions = {}): PmeChoice {
   particlesValidate(positions, masses);
   const shared = options.sharedMemory === true;
-  const wrappedPositions = shared ? new Float64Array(new SharedArrayBuffer(positions.byteLength)) : new Float64Array(positions.length);
+  const wrappedPositions = float64s(positions.length, shared);
   wrappedPositions.set(positions);
   const wrapped = positionsWrap(wrappedPositions, box);
   const opts = pmeOptionsResolve(options);
