@@ -10,7 +10,7 @@ import { download, reportFiles } from '../report/reportExport';
 import { verdictLimitParse } from '../report/reportVerdict';
 import { appStore, viewSet } from '../state/store';
 import { useApp } from '../state/useApp';
-import { viewImageDone } from '../view3d/scene';
+import { viewImage } from '../view3d/scene';
 
 export function ExportButton() {
   const ready = useApp((s) => s.comparison !== null && s.snapshot !== null && s.comparison.snapshotId === s.snapshot.id);
@@ -30,9 +30,10 @@ export function ExportButton() {
     setMessage('');
     try {
       const canvas = document.querySelector<HTMLCanvasElement>('[data-testid=viewport-3d] canvas');
-      // without a GPU a large cloud's image is drawn over a few frames: the report takes the finished one
-      await viewImageDone(canvas);
-      const files = await reportFiles(appStore.getState(), canvas, { key, limit }, new Date(), window.location.href);
+      // without a GPU a large cloud's image is drawn over a few frames: the report takes the finished
+      // one, a copy made by whichever thread draws the view (the view worker's canvas cannot be read here)
+      const view = await viewImage(canvas);
+      const files = await reportFiles(appStore.getState(), view, { key, limit }, new Date(), window.location.href);
       for (const f of files) download(f);
       setMessage("saved: report PNG, residuals CSV, JSON summary");
     } catch (e) {

@@ -61,7 +61,10 @@ function bind(view: ViewHandle, onDrawn: (d: DrawnInfo) => void): () => void {
     const snap = s.snapshot;
     const cmp = s.comparison && snap && s.comparison.snapshotId === snap.id ? s.comparison : null;
     if (!snap) return false;
-    // software rendering draws at most view.capacity() points: only those are built
+    // software rendering draws at most view.capacity() points: only those are built (known once the
+    // renderer runs, in the view worker)
+    await view.ready;
+    if (gen !== generation) return false;
     const cap = view.capacity();
     if (!cmp) {
       const m = Math.min(snap.n, cap);

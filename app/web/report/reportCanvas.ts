@@ -1,7 +1,7 @@
 /**
  * Draws a report layout (reportLayout.ts) on a canvas at its pixel ratio: an opaque background, boxes,
  * text, the SVG plots (rasterised through an Image from a blob URL; the page's CSP allows blob: images)
- * and a copy of the 3D view. The only DOM part of the report.
+ * and a copy of the 3D view (a canvas copy or the view worker's bitmap). The only DOM part of the report.
  */
 import { THEME } from '../plots/theme';
 import type { Measure, ReportLayout } from './reportLayout';
@@ -36,6 +36,9 @@ export async function svgImage(svg: string, scale: number): Promise<HTMLImageEle
   }
 }
 
+/** The 3D view's image as the report draws it: a canvas copy, or a bitmap from the view worker. */
+export type ReportViewImage = CanvasImageSource & { readonly width: number; readonly height: number };
+
 /** A copy of a canvas as it is now (the 3D view keeps its drawing buffer), or null. */
 export function canvasSnapshot(src: HTMLCanvasElement | null): HTMLCanvasElement | null {
   if (!src || src.width === 0 || src.height === 0) return null;
@@ -47,7 +50,7 @@ export function canvasSnapshot(src: HTMLCanvasElement | null): HTMLCanvasElement
 }
 
 /** The report drawn on a new canvas of layout.width·ratio × layout.height·ratio pixels. */
-export async function reportCanvasDraw(layout: ReportLayout, svgs: Readonly<Record<string, string>>, view: CanvasImageSource | null): Promise<HTMLCanvasElement> {
+export async function reportCanvasDraw(layout: ReportLayout, svgs: Readonly<Record<string, string>>, view: ReportViewImage | null): Promise<HTMLCanvasElement> {
   const r = layout.pixelRatio;
   const images = new Map<string, HTMLImageElement>();
   await Promise.all(

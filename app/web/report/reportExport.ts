@@ -13,7 +13,7 @@ import { scatterPlot } from '../plots/scatterPlot';
 import type { AppState } from '../state/store';
 import { VIEW_COLOURS } from '../view3d/scene';
 import { snapshotDigest } from './fileDigest';
-import { canvasMeasure, canvasSnapshot, reportCanvasDraw } from './reportCanvas';
+import { canvasMeasure, type ReportViewImage, reportCanvasDraw } from './reportCanvas';
 import { reportContent, reportOrderTraces, reportResidualsCsv, reportSummary } from './reportContent';
 import { type ReportLayout, reportLayout } from './reportLayout';
 import type { VerdictChoice } from './reportVerdict';
@@ -88,10 +88,8 @@ function canvasBlob(canvas: HTMLCanvasElement): Promise<Blob> {
   return new Promise((res, rej) => canvas.toBlob((b) => (b ? res(b) : rej(new Error('the report image could not be encoded as PNG'))), 'image/png'));
 }
 
-/** The three report files of the store's comparison (the 3D view read from `viewCanvas` now). */
-export async function reportFiles(s: AppState, viewCanvas: HTMLCanvasElement | null, choice: VerdictChoice, when: Date, link: string): Promise<ExportedFile[]> {
-  // copy the view first, in this task, as it is framed now
-  const view = canvasSnapshot(viewCanvas);
+/** The three report files of the store's comparison, with `view` (a copy of the 3D view's finished image, or null). */
+export async function reportFiles(s: AppState, view: ReportViewImage | null, choice: VerdictChoice, when: Date, link: string): Promise<ExportedFile[]> {
   const digest = await snapshotDigest(s.snapshot!);
   const input = { state: s, digest, version, created: when, verdict: choice, link };
   const content = reportContent(input);
