@@ -68,8 +68,9 @@ export async function dropFile(page, name, text) {
 }
 
 /**
- * What the 3D view shows: the share of canvas pixels that differ from the background, and how many
- * distinct colours (coarsely binned) they have. Reads the WebGL canvas through a 2D canvas (the view
+ * What the 3D view shows: the share of canvas pixels that differ from the background, how many
+ * distinct colours (coarsely binned) they have, and the lit pixels per band of 16 rows (a string: where
+ * the drawing sits). Reads the WebGL canvas through a 2D canvas (the view
  * keeps its drawing buffer).
  */
 export async function viewPixels(page) {
@@ -84,14 +85,16 @@ export async function viewPixels(page) {
     const d = g.getImageData(0, 0, c.width, c.height).data;
     let lit = 0;
     const colours = new Set();
+    const bands = new Array(Math.ceil(c.height / 16)).fill(0);
     for (let i = 0; i < d.length; i += 4) {
       // background #17211f
       if (Math.abs(d[i] - 0x17) + Math.abs(d[i + 1] - 0x21) + Math.abs(d[i + 2] - 0x1f) > 24) {
         lit++;
+        bands[Math.floor(i / 4 / c.width / 16)]++;
         colours.add(((d[i] >> 4) << 8) | ((d[i + 1] >> 4) << 4) | (d[i + 2] >> 4));
       }
     }
-    return { lit: lit / (d.length / 4), colours: colours.size, width: c.width };
+    return { lit: lit / (d.length / 4), colours: colours.size, width: c.width, bands: bands.join(',') };
   });
 }
 
