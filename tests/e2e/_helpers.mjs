@@ -74,6 +74,7 @@ export async function dropFile(page, name, text) {
  * keeps its drawing buffer).
  */
 export async function viewPixels(page) {
+  await viewSettled(page);
   return page.evaluate(() => {
     const src = document.querySelector('[data-testid=viewport-3d] canvas');
     if (!src) return { lit: 0, colours: 0, width: 0 };
@@ -96,6 +97,29 @@ export async function viewPixels(page) {
     }
     return { lit: lit / (d.length / 4), colours: colours.size, width: c.width, bands: bands.join(',') };
   });
+}
+
+/**
+ * Waits until the 3D view's image is complete: its canvas has carried no data-drawing (set while a still
+ * image is drawn over several frames) for `quietMs` in a row. A change sent to the view's worker shows
+ * data-drawing only after its first frame, so the quiet span must outlast a frame and a message (300 ms
+ * is generous even at load 3).
+ */
+export async function viewSettled(page, quietMs = 300, timeout = 15_000) {
+  await page.waitForFunction(
+    (quiet) => {
+      const c = document.querySelector('[data-testid=viewport-3d] canvas');
+      if (!c) return true;
+      const now = performance.now();
+      if (c.hasAttribute('data-drawing') || window.__viewQuietSince === undefined) window.__viewQuietSince = now;
+      if (c.hasAttribute('data-drawing')) return false;
+      const ok = now - window.__viewQuietSince >= quiet;
+      if (ok) window.__viewQuietSince = undefined;
+      return ok;
+    },
+    quietMs,
+    { timeout, polling: 25 },
+  );
 }
 
 /** Long main-thread tasks (ms durations) recorded since `since` (performance.now() of the page). */

@@ -38,7 +38,7 @@ export const tests = {
     await screenshot('picked');
   },
 
-  'the slab filter shows a slice, and arrows can be switched off': async (page, baseUrl, { screenshot }) => {
+  'the slab filter shows a slice, and arrows can be switched off': async (page, baseUrl, { log, screenshot }) => {
     await openFresh(page, baseUrl);
     await waitStatus(page, 'done', 30_000);
     await waitViewComparison(page);
@@ -52,6 +52,7 @@ export const tests = {
     await page.selectOption('[data-testid=arrows-mode]', 'none');
     await page.waitForTimeout(300);
     const noArrows = await viewPixels(page);
+    log(`lit share of the view: whole ${whole.lit.toFixed(4)}, z slab ${slab.lit.toFixed(4)}, no arrows ${noArrows.lit.toFixed(4)}`);
     check(noArrows.lit < whole.lit, 'switching the arrows off changed nothing');
   },
 };
