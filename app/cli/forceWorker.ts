@@ -1,18 +1,12 @@
 /**
- * worker_threads adapter over the engine's Ewald pieces (see parallelEwald.ts for the protocol).
- * It owns no numerics: every message maps to one engine call.
+ * worker_threads adapter over the engine's Ewald pieces (see parallelEwald.ts for the protocol and
+ * ewaldUnits.ts for the unit loops). It owns no numerics: every message maps to engine calls.
  */
 import { parentPort, workerData } from 'node:worker_threads';
-import {
-  type EwaldSetup,
-  ewaldAllRealChunk,
-  ewaldAllRealCollect,
-  ewaldFourierChunk,
-  ewaldStructureFactor,
-  ewaldTargetsChunk,
-} from '../../engine/ewald/ewald';
+import { type EwaldChosen, type EwaldSetup, ewaldAllRealCollect } from '../../engine/ewald/ewald';
 import { kernelModule, kernelModuleShare } from '../../engine/wasm/module';
-import type { WorkerRequest } from './parallelProtocol';
+import { type UnitsPlan, type UnitsShared, runUnitsBlocking, structureUnitsRun } from './ewaldUnits';
+import type { WorkerReply, WorkerRequest } from './parallelProtocol';
 import { PhaseClock } from './phaseTiming';
 
 const clock = new PhaseClock();
@@ -22,61 +16,43 @@ kernelModuleShare((workerData as { kernelModule?: WebAssembly.Module | null } | 
 kernelModule();
 clock.mark('compile');
 
+let chosen: EwaldChosen | null = null;
+let plan: UnitsPlan | null = null;
+let shared: UnitsShared | null = null;
 let setup: EwaldSetup | null = null;
-let weighted: Float64Array | null = null;
-let targets: Int32Array | null = null;
-let acc: Float64Array | null = null;
-let phi: Float64Array | null = null;
+
+const reply = (r: WorkerReply, transfer: ArrayBuffer[] = []) => parentPort!.postMessage(r, transfer);
 
 parentPort!.on('message', (msg: WorkerRequest) => {
   clock.mark('idle');
   try {
     switch (msg.type) {
-      case 'setup': {
-        setup = msg.setup;
-        targets = new Int32Array(msg.targets);
-        acc = new Float64Array(msg.acc);
-        phi = new Float64Array(msg.phi);
-        parentPort!.postMessage({ type: 'ready' });
-        break;
-      }
       case 'structure': {
-        const s = ewaldStructureFactor(setup!, msg.begin, msg.end);
-        parentPort!.postMessage({ type: 'structure', s }, [s.buffer as ArrayBuffer]);
+        chosen = msg.chosen;
+        plan = msg.plan;
+        shared = msg.shared;
+        reply({ type: 'ran', units: structureUnitsRun(chosen, plan, shared, msg.thread) });
         break;
       }
-      case 'weighted': {
-        weighted = new Float64Array(msg.weighted);
-        parentPort!.postMessage({ type: 'done' });
-        break;
-      }
-      case 'targets': {
-        ewaldTargetsChunk(setup!, weighted!, targets!, msg.begin, msg.end, acc!, phi!);
-        parentPort!.postMessage({ type: 'done' });
-        break;
-      }
-      case 'fourier': {
-        ewaldFourierChunk(setup!, weighted!, targets!, msg.begin, msg.end, acc!, phi!);
-        parentPort!.postMessage({ type: 'done' });
-        break;
-      }
-      case 'cells': {
-        ewaldAllRealChunk(setup!, msg.begin, msg.end);
-        parentPort!.postMessage({ type: 'done' });
+      case 'run': {
+        // The Fourier context made in phase 1 (chosen.kWasm) comes along with the spread.
+        setup = { ...chosen!, params: msg.params, cells: msg.cells, kernel: msg.kernel };
+        const units = runUnitsBlocking(setup, plan!, shared!, new Int32Array(msg.targets), new Float64Array(msg.acc), new Float64Array(msg.phi));
+        reply({ type: 'ran', units });
         break;
       }
       case 'timing': {
-        parentPort!.postMessage({ type: 'timing', records: clock.records });
+        reply({ type: 'timing', records: clock.records });
         return;
       }
       case 'collect': {
         const { accSorted: a, phiSorted: p } = ewaldAllRealCollect(setup!);
-        parentPort!.postMessage({ type: 'collected', accSorted: a, phiSorted: p }, [a.buffer as ArrayBuffer, p.buffer as ArrayBuffer]);
+        reply({ type: 'collected', accSorted: a, phiSorted: p }, [a.buffer as ArrayBuffer, p.buffer as ArrayBuffer]);
         break;
       }
     }
     clock.mark(msg.type);
   } catch (e) {
-    parentPort!.postMessage({ type: 'error', message: e instanceof Error ? e.message : String(e) });
+    reply({ type: 'error', message: e instanceof Error ? e.message : String(e) });
   }
 });

@@ -1,34 +1,31 @@
 /**
  * Ewald forces on this thread and threads − 1 worker_threads over shared memory. Scheduling only: the
  * numerics are the engine's (ewald.ts), run in the same pieces as ewaldForces on one thread:
- *   setup (here, once; its arrays are shared with the workers, which ewaldThreadsWarm may have started
- *   while the snapshot was read) → partial structure factors over source ranges (one per thread, summed
- *   here, while the workers go on with real-space cells) → real-space cell chunks, then Fourier chunks,
- *   taken from one queue by every thread → unsort + finalize here.
+ *   choose (here: wrap, parameters, k-vectors; the workers, which ewaldThreadsWarm may have started
+ *   while the snapshot was read, start on the structure factor at once) → cell list (here, meanwhile) →
+ *   structure-factor units, then real-space cell units and Fourier units, which every thread takes from
+ *   shared counters (ewaldUnits.ts) → collect, unsort, finalize and the weak-field refinement here.
  */
 import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
 import { type Box } from '../../engine/box';
 import {
+  type EwaldChosen,
   type EwaldResult,
   type EwaldSetup,
   type Progress,
-  ewaldAllRealChunk,
   ewaldAllRealCollect,
-  ewaldCellCount,
-  ewaldFourierChunk,
-  ewaldStructureFactor,
-  ewaldTargetsChunk,
+  ewaldChoose,
   ewaldFinalize,
   ewaldForces,
   ewaldRefineWeak,
-  ewaldSetup,
+  ewaldSetupBuild,
   ewaldTargetsValidate,
   ewaldUnsort,
-  ewaldWeighStructureFactor,
 } from '../../engine/ewald/ewald';
 import type { EwaldOptions } from '../../engine/ewald/params';
 import { kernelModule } from '../../engine/wasm/module';
+import { CTL_STOP, type RunCursor, runUnits, structureUnitsRun, unitsPlan, unitsShared, weightedWaitSlot } from './ewaldUnits';
 import type { WorkerReply, WorkerRequest } from './parallelProtocol';
 import { sharedArray } from '../common/sharedMemory';
 import { PhaseClock, phaseLines, phaseTotals, threadTimes, timingEnabled } from './phaseTiming';
@@ -41,15 +38,16 @@ export function defaultThreads(): number {
 /** Runs below this many particles stay on one thread. */
 const THREADED_MIN_PARTICLES = 2048;
 
-/** The setup with its arrays in shared memory and without this thread's WebAssembly contexts. */
-function setupShared(s: EwaldSetup): EwaldSetup {
-  const { cells, kernel, kspace } = s;
+/** The first half of the setup with its arrays in shared memory and without this thread's WebAssembly context. */
+function chosenShared(c: EwaldChosen): EwaldChosen {
+  const { kspace } = c;
   return {
-    ...s,
-    positions: sharedArray(s.positions),
-    masses: sharedArray(s.masses),
-    cells: { ...cells, xyzm: sharedArray(cells.xyzm), order: sharedArray(cells.order), slot: sharedArray(cells.slot), start: sharedArray(cells.start), stencil: sharedArray(cells.stencil) },
-    kernel: { ...kernel, table: { ...kernel.table, coef: sharedArray(kernel.table.coef) } },
+    box: c.box,
+    positions: sharedArray(c.positions),
+    masses: sharedArray(c.masses),
+    wrapped: c.wrapped,
+    params: c.params,
+    totalMass: c.totalMass,
     kspace: {
       ...kspace,
       colHx: sharedArray(kspace.colHx),
@@ -59,9 +57,16 @@ function setupShared(s: EwaldSetup): EwaldSetup {
       colK0: sharedArray(kspace.colK0),
       weight: sharedArray(kspace.weight),
     },
-    kWasm: undefined,
-    rWasm: undefined,
-    allSorted: undefined,
+  };
+}
+
+/** The second half of the setup (cell list, kernel table) in shared memory, for a 'run' message. */
+function buildShared(s: EwaldSetup): Pick<EwaldSetup, 'params' | 'cells' | 'kernel'> {
+  const { cells, kernel } = s;
+  return {
+    params: s.params,
+    cells: { ...cells, xyzm: sharedArray(cells.xyzm), order: sharedArray(cells.order), slot: sharedArray(cells.slot), start: sharedArray(cells.start), stencil: sharedArray(cells.stencil) },
+    kernel: { ...kernel, table: { ...kernel.table, coef: sharedArray(kernel.table.coef) } },
   };
 }
 
@@ -161,44 +166,6 @@ class Pool {
     });
   }
 
-  /**
-   * Hands the tasks out in order: two lanes per worker (so a worker always has its next task queued) and
-   * one lane in this thread, which runs its task with `local` and then yields to the event loop. `gate(task)`
-   * is awaited before a task is taken on (for tasks that need data still being prepared).
-   */
-  async distribute(
-    tasks: WorkerRequest[],
-    gate: (t: WorkerRequest) => Promise<void> | void,
-    local: (t: WorkerRequest) => void,
-    onDone: (t: WorkerRequest) => void,
-  ): Promise<void> {
-    let next = 0;
-    let failed = false;
-    const guard = (lane: () => Promise<void>) =>
-      lane().catch((e) => {
-        failed = true; // the other lanes stop taking tasks
-        throw e;
-      });
-    const remote = async (i: number) => {
-      while (next < tasks.length && !failed) {
-        const task = tasks[next++];
-        await gate(task);
-        await this.send(i, task);
-        onDone(task);
-      }
-    };
-    const here = async () => {
-      while (next < tasks.length && !failed) {
-        const task = tasks[next++];
-        await gate(task);
-        local(task);
-        onDone(task);
-        await new Promise((r) => setImmediate(r)); // let replies in and hand out the next tasks
-      }
-    };
-    await Promise.all([guard(here), ...this.workers.flatMap((_, i) => [guard(() => remote(i)), guard(() => remote(i))])]);
-  }
-
   /** Stops the workers without waiting for their exit (nothing of theirs is needed any more). */
   close(): void {
     for (const w of this.workers) {
@@ -208,11 +175,9 @@ class Pool {
   }
 }
 
-/** Chunks [b, e) of [0, total) of about `step`, as tasks of the given type. */
-function chunks(type: 'cells' | 'fourier' | 'targets', total: number, step: number): WorkerRequest[] {
-  const out: WorkerRequest[] = [];
-  for (let b = 0; b < total; b += step) out.push({ type, begin: b, end: Math.min(total, b + step) });
-  return out;
+/** ewaldForcesThreads' result: the engine's, and how many units of work the workers ran (0 on one thread). */
+export interface EwaldThreadsResult extends EwaldResult {
+  readonly workerUnits?: number;
 }
 
 /**
@@ -230,7 +195,7 @@ export async function ewaldForcesThreads(
   threads: number = defaultThreads(),
   onProgress?: Progress,
   workerUrl: URL = WORKER_URL,
-): Promise<EwaldResult> {
+): Promise<EwaldThreadsResult> {
   const n = masses.length;
   if (threads <= 1 || n < THREADED_MIN_PARTICLES) {
     warmTake(-1, workerUrl);
@@ -244,72 +209,58 @@ export async function ewaldForcesThreads(
   clock.mark('warm→threads (read, validate)');
   // This thread computes too: threads − 1 workers.
   const pool = new Pool(threads - 1, workerUrl);
-  let setup: EwaldSetup;
-  try {
-    setup = ewaldSetup(positions, masses, box, { ...options, sharedMemory: true }, all ? n : tg.length);
-  } catch (e) {
-    pool.close();
-    throw e;
-  }
-  clock.mark('setup');
   const K = tg.length;
-  const accBuf = new SharedArrayBuffer(8 * 3 * K);
-  const phiBuf = new SharedArrayBuffer(8 * K);
+  const opts = { ...options, sharedMemory: true };
+  let stopFlag: Int32Array | null = null;
   try {
-    const plain = setupShared(setup);
+    const chosen = ewaldChoose(positions, masses, box, opts, all ? n : K);
+    const [gx, gy, gz] = chosen.params.cells;
+    const plan = unitsPlan(n, K, gx * gy * gz, threads, all);
+    const shared = unitsShared(threads, chosen.kspace.count);
+    stopFlag = new Int32Array(shared.ctl);
+    // Every reply of a worker, so that a failing worker ends the waits below instead of leaving them hanging.
+    const replies: Promise<WorkerReply>[] = [];
+    const track = (r: Promise<WorkerReply>) => {
+      r.catch(() => undefined); // awaited below, unless this thread fails first (then the workers are stopped)
+      replies.push(r);
+    };
+    const plainChosen = chosenShared(chosen);
+    for (let i = 0; i < pool.size; i++) track(pool.send(i, { type: 'structure', chosen: plainChosen, plan, shared, thread: i + 1 }));
+    clock.mark('choose');
+    const setup = ewaldSetupBuild(chosen, opts);
+    const accBuf = new SharedArrayBuffer(8 * 3 * K);
+    const phiBuf = new SharedArrayBuffer(8 * K);
     const tgShared = sharedArray(tg);
-    const ready = Array.from({ length: pool.size }, (_, i) => pool.send(i, { type: 'setup', setup: plain, targets: tgShared.buffer as SharedArrayBuffer, acc: accBuf, phi: phiBuf }));
-    // Structure factor: source range 0 here, range i + 1 on worker i; summed here while the workers go on.
-    const range = (r: number) => [Math.floor((r * n) / threads), Math.floor(((r + 1) * n) / threads)];
-    const parts = Array.from({ length: pool.size }, (_, i) => pool.send(i, { type: 'structure', begin: range(i + 1)[0], end: range(i + 1)[1] }));
-    clock.mark('share setup');
-    const sHere = ewaldStructureFactor(setup, range(0)[0], range(0)[1]);
+    const built = buildShared(setup);
+    for (let i = 0; i < pool.size; i++) {
+      track(pool.send(i, { type: 'run', ...built, targets: tgShared.buffer as SharedArrayBuffer, acc: accBuf, phi: phiBuf }));
+    }
+    const failed = Promise.all(replies).then(() => new Promise<never>(() => undefined));
+    failed.catch(() => undefined); // raced below; every reply is also awaited
+    clock.mark('setup (cell list, table)');
+    structureUnitsRun(setup, plan, shared, 0);
     clock.mark('structure (own part)');
-    let weightedHere: Float64Array | null = null;
-    const weightedReady = Promise.all(parts).then((replies) => {
-      const s = sHere;
-      for (const r of replies) if (r.type === 'structure') for (let k = 0; k < s.length; k++) s[k] += r.s[k];
-      const weighted = sharedArray(ewaldWeighStructureFactor(setup, s));
-      weightedHere = weighted;
-      // Queued behind each worker's current tasks, so before any Fourier task it is given.
-      for (let i = 0; i < pool.size; i++) pool.send(i, { type: 'weighted', weighted: weighted.buffer as SharedArrayBuffer }).catch(() => undefined);
-      return weighted;
-    });
-    weightedReady.catch(() => undefined); // a failure surfaces where the Fourier tasks wait for it
-    const gate = (t: WorkerRequest) => (t.type === 'cells' ? undefined : weightedReady.then(() => undefined));
-    await Promise.all(ready);
     const acc = new Float64Array(accBuf);
     const phi = new Float64Array(phiBuf);
-    const local = (t: WorkerRequest) => {
-      if (t.type === 'cells') ewaldAllRealChunk(setup, t.begin, t.end);
-      else if (t.type === 'fourier') ewaldFourierChunk(setup, weightedHere!, tg, t.begin, t.end, acc, phi);
-      else if (t.type === 'targets') ewaldTargetsChunk(setup, weightedHere!, tg, t.begin, t.end, acc, phi);
-    };
+    const cursor: RunCursor = { held: -1, ran: 0 };
+    const onUnit = onProgress ? (taken: number, total: number) => onProgress(taken / total) : undefined;
+    while (!runUnits(setup, plan, shared, tg, acc, phi, cursor, onUnit)) {
+      // Another thread is still on its structure-factor units or weighing the sum: wait without blocking
+      // this thread's event loop, so that a worker's failure still arrives.
+      const wait = weightedWaitSlot(plan, stopFlag);
+      if (!wait) continue;
+      const w = Atomics.waitAsync(stopFlag, wait[0], wait[1], 200);
+      if (w.async) await Promise.race([w.value, failed]);
+    }
+    const workerUnits = (await Promise.all(replies)).reduce((u, r) => u + (r.type === 'ran' ? r.units : 0), 0);
+    clock.mark(all ? 'real + fourier' : 'targets');
     if (all) {
-      const nc = ewaldCellCount(setup);
-      const cellTasks = chunks('cells', nc, Math.max(1, Math.ceil(nc / (threads * 24))));
-      const fourierTasks = chunks('fourier', K, Math.max(64, Math.ceil(K / (threads * 24))));
-      let realDone = 0, fourierDone = 0;
-      await pool.distribute([...cellTasks, ...fourierTasks], gate, local, (t) => {
-        if (t.type === 'cells') realDone += t.end - t.begin;
-        else if (t.type === 'fourier') fourierDone += t.end - t.begin;
-        onProgress?.(0.6 * (realDone / nc) + 0.4 * (fourierDone / K));
-      });
-      clock.mark('real + fourier');
       const collected = await Promise.all(Array.from({ length: pool.size }, (_, i) => pool.send(i, { type: 'collect' })));
       const own = ewaldAllRealCollect(setup);
       ewaldUnsort(setup, own.accSorted, own.phiSorted, acc, phi);
       for (const r of collected) if (r.type === 'collected') ewaldUnsort(setup, r.accSorted, r.phiSorted, acc, phi);
       clock.mark('collect');
-    } else {
-      let done = 0;
-      await pool.distribute(chunks('targets', K, Math.max(16, Math.ceil(K / (threads * 24)))), gate, local, (t) => {
-        if (t.type === 'targets') done += t.end - t.begin;
-        onProgress?.(done / K);
-      });
-      clock.mark('targets');
     }
-    await weightedReady;
     const accOut = new Float64Array(acc);
     const phiOut = new Float64Array(phi);
     ewaldFinalize(setup, tg, accOut, phiOut);
@@ -321,7 +272,10 @@ export async function ewaldForcesThreads(
       timings.forEach((r, i) => r.type === 'timing' && process.stderr.write(phaseLines(`worker${i}`, phaseTotals(r.records))));
       process.stderr.write(phaseLines('main', clock.records));
     }
-    return { targets: tg, acc: accOut, phi: phiOut, params: setup.params, wrapped: setup.wrapped, refined };
+    return { targets: tg, acc: accOut, phi: phiOut, params: setup.params, wrapped: setup.wrapped, refined, workerUnits };
+  } catch (e) {
+    if (stopFlag) Atomics.store(stopFlag, CTL_STOP, 1); // the workers stop taking units
+    throw e;
   } finally {
     pool.close();
   }

@@ -1,28 +1,34 @@
-/** Messages between parallelEwald.ts and forceWorker.ts. */
-import type { EwaldSetup } from '../../engine/ewald/ewald';
+/** Messages between parallelEwald.ts and forceWorker.ts (the work itself is taken from shared counters: ewaldUnits.ts). */
+import type { EwaldChosen, EwaldSetup } from '../../engine/ewald/ewald';
+import type { UnitsPlan, UnitsShared } from './ewaldUnits';
 import type { PhaseRecord } from './phaseTiming';
 
 export type WorkerRequest =
   | {
-      type: 'setup';
-      /** The main thread's setup, without its WebAssembly contexts (structured copy). */
-      setup: EwaldSetup;
+      /** Phase 1: structure-factor units, as thread `thread` (the main thread is 0). */
+      type: 'structure';
+      /** The main thread's first half of the setup, arrays in shared memory, without WebAssembly contexts. */
+      chosen: EwaldChosen;
+      plan: UnitsPlan;
+      shared: UnitsShared;
+      thread: number;
+    }
+  | {
+      /** Phase 2: real-space cell and Fourier (or per-target) units. */
+      type: 'run';
+      /** The second half of the setup (arrays in shared memory). */
+      params: EwaldSetup['params'];
+      cells: EwaldSetup['cells'];
+      kernel: EwaldSetup['kernel'];
       targets: SharedArrayBuffer;
       acc: SharedArrayBuffer;
       phi: SharedArrayBuffer;
     }
-  | { type: 'structure'; begin: number; end: number }
-  | { type: 'weighted'; weighted: SharedArrayBuffer }
-  | { type: 'targets'; begin: number; end: number }
-  | { type: 'fourier'; begin: number; end: number }
-  | { type: 'cells'; begin: number; end: number }
   | { type: 'collect' }
   | { type: 'timing' };
 
 export type WorkerReply =
-  | { type: 'ready' }
-  | { type: 'done' }
-  | { type: 'structure'; s: Float64Array }
+  | { type: 'ran'; units: number }
   | { type: 'collected'; accSorted: Float64Array; phiSorted: Float64Array }
   | { type: 'timing'; records: PhaseRecord[] }
   | { type: 'error'; message: string };

@@ -17,7 +17,8 @@ import { type RealSpaceKernel, realSpaceAllSorted, realSpaceTargets } from './re
 import { type KSpaceWasm, kSpaceWasmCreate } from '../wasm/kSpaceWasm';
 import { type RealSpaceWasm, realSpaceWasmCreate } from '../wasm/realSpaceWasm';
 
-export interface EwaldSetup {
+/** What the Fourier part needs: the first half of a setup (ewaldChoose), before the cell list exists. */
+export interface EwaldChosen {
   readonly box: Box;
   /** Positions wrapped into the home cell (a copy), flat xyz. */
   readonly positions: Float64Array;
@@ -25,12 +26,15 @@ export interface EwaldSetup {
   /** How many input particles lay outside the home cell and were wrapped. */
   readonly wrapped: number;
   readonly params: EwaldParams;
-  readonly cells: CellList;
-  readonly kernel: RealSpaceKernel;
   readonly kspace: KSpace;
   readonly totalMass: number;
   /** WebAssembly context of the Fourier kernels (created on first use; null where unavailable). */
   kWasm?: KSpaceWasm | null;
+}
+
+export interface EwaldSetup extends EwaldChosen {
+  readonly cells: CellList;
+  readonly kernel: RealSpaceKernel;
   /** WebAssembly context of the real-space kernels (created on first use; null where unavailable). */
   rWasm?: RealSpaceWasm | null;
   /** JavaScript-path accumulators of the symmetric all-particle real-space sums (sorted order). */
@@ -42,7 +46,7 @@ function realWasm(setup: EwaldSetup): RealSpaceWasm | null {
   return setup.rWasm;
 }
 
-function fourierWasm(setup: EwaldSetup): KSpaceWasm | null {
+function fourierWasm(setup: EwaldChosen): KSpaceWasm | null {
   if (setup.kWasm === undefined) setup.kWasm = kSpaceWasmCreate(setup.kspace, setup.box, setup.positions, setup.masses);
   return setup.kWasm;
 }
@@ -112,7 +116,7 @@ export interface EwaldChecked {
  * Prepares a run: wraps positions (length units) into the box, chooses parameters for `targetCount`
  * targets, builds the cell list, kernel table and k-vectors. Masses may be signed (lattice-sum checks).
  * `checked` (from an earlier setup of the same particles) skips the validation, the coincidence search
- * and the clustering measurement.
+ * and the clustering measurement. Same as ewaldSetupBuild(ewaldChoose(…)).
  */
 export function ewaldSetup(
   positions: Float64Array,
@@ -122,6 +126,22 @@ export function ewaldSetup(
   targetCount: number = masses.length,
   checked?: EwaldChecked,
 ): EwaldSetup {
+  return ewaldSetupBuild(ewaldChoose(positions, masses, box, options, targetCount, checked), options, checked);
+}
+
+/**
+ * The first half of ewaldSetup: validates, wraps positions into the box (a copy, in shared memory with
+ * options.sharedMemory), chooses the parameters and enumerates the k-vectors. Enough for
+ * ewaldStructureFactor, so that threads can start on it while ewaldSetupBuild makes the cell list.
+ */
+export function ewaldChoose(
+  positions: Float64Array,
+  masses: Float64Array,
+  box: Box,
+  options: EwaldOptions = {},
+  targetCount: number = masses.length,
+  checked?: EwaldChecked,
+): EwaldChosen {
   boxMake(box.lx, box.ly, box.lz); // throws a RangeError naming a side that is not > 0
   if (!checked) particlesValidate(positions, masses);
   const shared = options.sharedMemory === true;
@@ -129,9 +149,22 @@ export function ewaldSetup(
   wrappedPositions.set(positions);
   const wrapped = positionsWrap(wrappedPositions, box);
   const chosen = ewaldParamsChoose(wrappedPositions, masses, box, options, targetCount, checked?.clustering);
-  const rLoop = Math.max(chosen.rCut, chosen.rSoft);
-  const cells = cellListBuild(wrappedPositions, masses, box, chosen.cells, rLoop, shared);
-  if (chosen.softening.kind === 'none' && !checked) {
+  const kspace = kSpaceBuild(box, chosen.alpha, chosen.kCut);
+  let totalMass = 0;
+  for (let i = 0; i < masses.length; i++) totalMass += masses[i];
+  const params: EwaldParams = { ...chosen, hMax: kspace.hMax, kVectors: kspace.count };
+  return { box, positions: wrappedPositions, masses, wrapped, params, kspace, totalMass };
+}
+
+/**
+ * The second half of ewaldSetup: the cell list (shared memory with options.sharedMemory), the search for
+ * coincident particles (unless `checked` or softened) and the kernel table. Keeps `chosen`'s Fourier context.
+ */
+export function ewaldSetupBuild(chosen: EwaldChosen, options: EwaldOptions = {}, checked?: EwaldChecked): EwaldSetup {
+  const p = chosen.params;
+  const rLoop = Math.max(p.rCut, p.rSoft);
+  const cells = cellListBuild(chosen.positions, chosen.masses, chosen.box, p.cells, rLoop, options.sharedMemory === true);
+  if (p.softening.kind === 'none' && !checked) {
     const pair = cellListFindCoincident(cells);
     if (pair) {
       throw new EngineInputError(
@@ -141,28 +174,23 @@ export function ewaldSetup(
       );
     }
   }
-  const uMax = chosen.alpha * chosen.alpha * chosen.rCut * chosen.rCut;
+  const uMax = p.alpha * p.alpha * p.rCut * p.rCut;
   const table: KernelTable = kernelTableBuild(uMax);
-  const kspace = kSpaceBuild(box, chosen.alpha, chosen.kCut);
-  let totalMass = 0;
-  for (let i = 0; i < masses.length; i++) totalMass += masses[i];
-  const params: EwaldParams = { ...chosen, hMax: kspace.hMax, kVectors: kspace.count, stencilCells: cells.stencil.length / 3 };
   return {
-    box,
-    positions: wrappedPositions,
-    masses,
-    wrapped,
-    params,
+    ...chosen,
+    params: { ...p, stencilCells: cells.stencil.length / 3 },
     cells,
-    kernel: { alpha: chosen.alpha, rCut: chosen.rCut, rSoft: chosen.rSoft, softening: chosen.softening, table },
-    kspace,
-    totalMass,
+    kernel: { alpha: p.alpha, rCut: p.rCut, rSoft: p.rSoft, softening: p.softening, table },
   };
 }
 
 /** Partial structure factor over source particles [begin, end): interleaved re, im per k-vector. */
-export function ewaldStructureFactor(setup: EwaldSetup, begin = 0, end = setup.masses.length): Float64Array {
-  const s = new Float64Array(2 * setup.kspace.count);
+export function ewaldStructureFactor(setup: EwaldChosen, begin = 0, end = setup.masses.length): Float64Array {
+  return ewaldStructureFactorAdd(setup, begin, end, new Float64Array(2 * setup.kspace.count));
+}
+
+/** Adds the structure factor of source particles [begin, end) into s (interleaved re, im); returns s. */
+export function ewaldStructureFactorAdd(setup: EwaldChosen, begin: number, end: number, s: Float64Array): Float64Array {
   const w = fourierWasm(setup);
   if (w) w.structureFactor(begin, end, s);
   else kSpaceStructureFactor(setup.kspace, setup.box, setup.positions, setup.masses, begin, end, s);
@@ -170,7 +198,7 @@ export function ewaldStructureFactor(setup: EwaldSetup, begin = 0, end = setup.m
 }
 
 /** Turns the summed structure factor into the weighted one the evaluation needs (in place). */
-export function ewaldWeighStructureFactor(setup: EwaldSetup, s: Float64Array): Float64Array {
+export function ewaldWeighStructureFactor(setup: EwaldChosen, s: Float64Array): Float64Array {
   return kSpaceWeigh(setup.kspace, s);
 }
 
