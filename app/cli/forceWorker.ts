@@ -3,7 +3,7 @@
  * ewaldUnits.ts for the unit loops). It owns no numerics: every message maps to engine calls.
  */
 import { parentPort, workerData } from 'node:worker_threads';
-import { type EwaldChosen, type EwaldSetup, ewaldAllRealCollect } from '../../engine/ewald/ewald';
+import { type EwaldChosen, type EwaldSetup, ewaldAllRealCollect, ewaldUnsort } from '../../engine/ewald/ewald';
 import { kernelModule, kernelModuleShare } from '../../engine/wasm/module';
 import { type UnitsPlan, type UnitsShared, runUnitsBlocking, structureUnitsRun } from './ewaldUnits';
 import type { WorkerReply, WorkerRequest } from './parallelProtocol';
@@ -21,7 +21,7 @@ let plan: UnitsPlan | null = null;
 let shared: UnitsShared | null = null;
 let setup: EwaldSetup | null = null;
 
-const reply = (r: WorkerReply, transfer: ArrayBuffer[] = []) => parentPort!.postMessage(r, transfer);
+const reply = (r: WorkerReply) => parentPort!.postMessage(r);
 
 parentPort!.on('message', (msg: WorkerRequest) => {
   clock.mark('idle');
@@ -46,8 +46,9 @@ parentPort!.on('message', (msg: WorkerRequest) => {
         return;
       }
       case 'collect': {
-        const { accSorted: a, phiSorted: p } = ewaldAllRealCollect(setup!);
-        reply({ type: 'collected', accSorted: a, phiSorted: p }, [a.buffer as ArrayBuffer, p.buffer as ArrayBuffer]);
+        const { accSorted, phiSorted } = ewaldAllRealCollect(setup!);
+        ewaldUnsort(setup!, accSorted, phiSorted, new Float64Array(msg.acc), new Float64Array(msg.phi));
+        reply({ type: 'ran', units: 0 });
         break;
       }
     }

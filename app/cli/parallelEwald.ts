@@ -255,10 +255,18 @@ export async function ewaldForcesThreads(
     const workerUnits = (await Promise.all(replies)).reduce((u, r) => u + (r.type === 'ran' ? r.units : 0), 0);
     clock.mark(all ? 'real + fourier' : 'targets');
     if (all) {
-      const collected = await Promise.all(Array.from({ length: pool.size }, (_, i) => pool.send(i, { type: 'collect' })));
+      // Each worker unsorts its real-space sums into buffers of its own while this thread does its own;
+      // then they are added here (the same additions, per particle, as unsorting them here).
+      const parts = Array.from({ length: pool.size }, () => ({ acc: new SharedArrayBuffer(8 * 3 * n), phi: new SharedArrayBuffer(8 * n) }));
+      const collected = Promise.all(parts.map((b, i) => pool.send(i, { type: 'collect', acc: b.acc, phi: b.phi })));
       const own = ewaldAllRealCollect(setup);
       ewaldUnsort(setup, own.accSorted, own.phiSorted, acc, phi);
-      for (const r of collected) if (r.type === 'collected') ewaldUnsort(setup, r.accSorted, r.phiSorted, acc, phi);
+      await collected;
+      for (const b of parts) {
+        const pa = new Float64Array(b.acc), pp = new Float64Array(b.phi);
+        for (let k = 0; k < pa.length; k++) acc[k] += pa[k];
+        for (let k = 0; k < pp.length; k++) phi[k] += pp[k];
+      }
       clock.mark('collect');
     }
     const accOut = new Float64Array(acc);

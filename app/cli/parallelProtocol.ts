@@ -24,11 +24,15 @@ export type WorkerRequest =
       acc: SharedArrayBuffer;
       phi: SharedArrayBuffer;
     }
-  | { type: 'collect' }
+  | {
+      /** The worker's real-space sums, unsorted into these (zeroed, input order: 3N and N doubles). */
+      type: 'collect';
+      acc: SharedArrayBuffer;
+      phi: SharedArrayBuffer;
+    }
   | { type: 'timing' };
 
 export type WorkerReply =
   | { type: 'ran'; units: number }
-  | { type: 'collected'; accSorted: Float64Array; phiSorted: Float64Array }
   | { type: 'timing'; records: PhaseRecord[] }
   | { type: 'error'; message: string };
