@@ -113,15 +113,36 @@ async function accuracy(): Promise<void> {
   });
 }
 
+/** Best wall seconds of `reps` runs of node with these arguments and environment. */
+function nodeBest(args: string[], env: NodeJS.ProcessEnv, reps = 3): number {
+  let best = Infinity;
+  for (let r = 0; r < reps; r++) {
+    const t0 = performance.now();
+    const run = spawnSync(process.execPath, args, { env });
+    if (run.status !== 0) throw new Error(`node ${args.join(' ')} failed: ${run.stderr}`);
+    best = Math.min(best, (performance.now() - t0) / 1000);
+  }
+  return best;
+}
+
 /**
  * The whole `torusgrav forces` command (start, read CSV, compute, write), N = 16384, tol 1e-6, all
  * targets: best wall seconds of 3 runs per thread count, with the 1-minute load average beside it
- * (the machine may be shared).
+ * (the machine may be shared), and Node's own start-up (`node -e 0`) in the same environment. When the
+ * environment sets NODE_EXTRA_CA_CERTS (this workplace does: Node reads the certificates at every start,
+ * ~0.07 s here, though the command makes no network connection), the command is also timed without it.
  */
 function commandTimes(): void {
   const cli = fileURLToPath(new URL('torusgrav.mjs', workerUrl));
   const dir = mkdtempSync(join(tmpdir(), 'torusgrav-bench-'));
+  const env = process.env;
+  const extraCa = env.NODE_EXTRA_CA_CERTS !== undefined;
+  const envPlain = { ...env };
+  delete envPlain.NODE_EXTRA_CA_CERTS;
   try {
+    const nodeStart = nodeBest(['-e', '0'], env, 5);
+    const nodeStartPlain = extraCa ? nodeBest(['-e', '0'], envPlain, 5) : nodeStart;
+    emit({ bench: 'node-start', secondsWallBestOf5: +nodeStart.toFixed(3), ...(extraCa ? { secondsWallBestOf5WithoutExtraCaCerts: +nodeStartPlain.toFixed(3) } : {}) });
     for (const n of quick ? [4096] : [16384, 65536]) {
       for (const kind of ['uniform', 'clumped'] as const) {
         const positions = kind === 'uniform' ? uniform(n, 11) : demoSnapshot(n, 1).positions;
@@ -130,14 +151,20 @@ function commandTimes(): void {
         const file = join(dir, `${kind}-${n}.csv`);
         writeFileSync(file, rows.join('\n') + '\n');
         for (const threads of [1, 2]) {
-          let best = Infinity;
-          for (let r = 0; r < 3; r++) {
-            const t0 = performance.now();
-            const run = spawnSync(process.execPath, [cli, 'forces', file, '--box', '1', '--tol', '1e-6', '--threads', String(threads), '--out', join(dir, 'out.csv')]);
-            if (run.status !== 0) throw new Error(`forces command failed: ${run.stderr}`);
-            best = Math.min(best, (performance.now() - t0) / 1000);
-          }
-          emit({ bench: 'forces-command', n, snapshot: kind, tol: 1e-6, targets: 'all', threads, secondsWallBestOf3: +best.toFixed(3), loadAverage1min: +loadavg()[0].toFixed(2) });
+          const args = [cli, 'forces', file, '--box', '1', '--tol', '1e-6', '--threads', String(threads), '--out', join(dir, 'out.csv')];
+          const best = nodeBest(args, env);
+          const plain = extraCa ? nodeBest(args, envPlain) : best;
+          emit({
+            bench: 'forces-command',
+            n,
+            snapshot: kind,
+            tol: 1e-6,
+            targets: 'all',
+            threads,
+            secondsWallBestOf3: +best.toFixed(3),
+            ...(extraCa ? { secondsWallBestOf3WithoutExtraCaCerts: +plain.toFixed(3) } : {}),
+            loadAverage1min: +loadavg()[0].toFixed(2),
+          });
         }
       }
     }
