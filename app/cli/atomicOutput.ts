@@ -66,8 +66,12 @@ export function outputProblem(path: string): string | null {
   return null;
 }
 
-/** Writes the chunks to `path` atomically (temp file + rename); throws CliError (exit 2) on failure. */
-export async function outputWriteAtomic(path: string, chunks: Iterable<string>): Promise<void> {
+/**
+ * Writes the chunks (text as UTF-8, or bytes as they are) to `path` atomically (temp file + rename);
+ * throws CliError (exit 2) on failure. Each chunk is written before the next is asked for, so a byte
+ * chunk may be a view that the iterator reuses.
+ */
+export async function outputWriteAtomic(path: string, chunks: Iterable<string | Uint8Array>): Promise<void> {
   const full = resolve(path);
   const tmp = join(dirname(full), `.${basename(full)}.${process.pid}.${Math.random().toString(36).slice(2, 10)}.tmp`);
   hooksInstall();
@@ -75,7 +79,15 @@ export async function outputWriteAtomic(path: string, chunks: Iterable<string>):
   let handle: Awaited<ReturnType<typeof open>> | undefined;
   try {
     handle = await open(tmp, 'wx');
-    for (const chunk of chunks) await handle.write(chunk);
+    for (const chunk of chunks) {
+      if (typeof chunk === 'string') await handle.write(chunk);
+      else
+        for (let at = 0; at < chunk.length; ) {
+          const { bytesWritten } = await handle.write(chunk, at, chunk.length - at);
+          if (bytesWritten <= 0) throw new Error('the write made no progress');
+          at += bytesWritten;
+        }
+    }
     await handle.sync();
     await handle.close();
     handle = undefined;

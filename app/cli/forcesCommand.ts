@@ -5,12 +5,13 @@
 import { resolve } from 'node:path';
 import { EngineInputError } from '../../engine/ewald/ewald';
 import type { EwaldOptions } from '../../engine/ewald/params';
-import { type CsvColumn, csvChunks } from '../../engine/formats/csvWrite';
+import { type CsvColumn, csvChunksBytes } from '../../engine/formats/csvWrite';
 import { type Snapshot, SnapshotFormatError } from '../../engine/formats/snapshot';
 import { snapshotPlace, snapshotValidate } from '../../engine/formats/validate';
 import type { Softening } from '../../engine/softening';
 import { targetsResolve } from '../../engine/targets';
 import { outputProblem, outputWriteAtomic } from './atomicOutput';
+import { PhaseClock, phaseLines, timingEnabled } from './phaseTiming';
 import { CliError, UsageError } from './cliErrors';
 import type { CliIo } from './cliIo';
 import { engineErrorExplain, outsideWarning, targetIds } from './engineErrors';
@@ -120,7 +121,12 @@ export async function forcesRun(argv: readonly string[], io: CliIo, helpText: ()
     { name: 'phi', values: result.phi },
     ...(errors ? [{ name: 'rel_err', values: errors }] : []),
   ];
-  await outputWriteAtomic(out, csvChunks(columns, result.targets.length));
+  const writeClock = timingEnabled() ? new PhaseClock(true) : null;
+  await outputWriteAtomic(out, csvChunksBytes(columns, result.targets.length, 4096, { transient: true }));
+  if (writeClock) {
+    writeClock.mark('write (format, write, sync, rename)');
+    io.stderr(phaseLines('main', writeClock.records));
+  }
   const tEnd = io.now();
   io.stderr(
     forcesSummary({
