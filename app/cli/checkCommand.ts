@@ -9,7 +9,7 @@ import { createReadStream, mkdirSync, statSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { version } from '../../package.json';
 import { EngineInputError } from '../../engine/ewald/ewald';
-import { csvChunks } from '../../engine/formats/csvWrite';
+import { csvChunksBytes } from '../../engine/formats/csvWrite';
 import { residualColumns } from '../../engine/stats/checkSummary';
 import { LOAD_LIMIT_BYTES } from '../../engine/formats/description';
 import { snapshotValidate } from '../../engine/formats/validate';
@@ -202,7 +202,7 @@ export async function checkRun(argv: readonly string[], io: CliIo, helpText: () 
     const pos = new Float64Array(3 * K);
     for (let t = 0; t < K; t++) for (let d = 0; d < 3; d++) pos[3 * t + d] = snapshot.positions[3 * result.targets[t] + d];
     const columns = residualColumns(ids, pos, accA, accB, f.rel);
-    await outputWriteAtomic(residualsPath, csvChunks(columns, K));
+    await outputWriteAtomic(residualsPath, csvChunksBytes(columns, K, 4096, { transient: true }));
   }
   if (svgDir !== undefined) {
     // loaded only when asked for: the plot code (shared with the web app) brings d3's scales and formats

@@ -1,6 +1,6 @@
 /** `torusgrav demo`: writes the seeded demo snapshot (the web app's generator) as CSV x,y,z,m. */
 import { demoSnapshot } from '../../engine/demo/demoSnapshot';
-import { csvChunks } from '../../engine/formats/csvWrite';
+import { csvChunksBytes } from '../../engine/formats/csvWrite';
 import { type OptionSpec, argsParse } from './argParse';
 import { outputProblem, outputWriteAtomic } from './atomicOutput';
 import { CliError, UsageError } from './cliErrors';
@@ -43,7 +43,7 @@ export async function demoRun(argv: readonly string[], io: CliIo, helpText: () =
   const demo = demoSnapshot(n, seed);
   await outputWriteAtomic(
     out,
-    csvChunks(
+    csvChunksBytes(
       [
         { name: 'x', values: demo.positions, stride: 3, offset: 0 },
         { name: 'y', values: demo.positions, stride: 3, offset: 1 },
@@ -51,6 +51,8 @@ export async function demoRun(argv: readonly string[], io: CliIo, helpText: () =
         { name: 'm', values: demo.masses },
       ],
       n,
+      4096,
+      { transient: true },
     ),
   );
   io.stderr(`box ${demo.box}\n`);

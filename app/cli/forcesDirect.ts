@@ -4,7 +4,7 @@
  * order-dependent constants).
  */
 import type { Box } from '../../engine/box';
-import { csvChunks } from '../../engine/formats/csvWrite';
+import { csvChunksBytes } from '../../engine/formats/csvWrite';
 import type { Snapshot } from '../../engine/formats/snapshot';
 import { snapshotValidate } from '../../engine/formats/validate';
 import { targetsResolve } from '../../engine/targets';
@@ -56,7 +56,7 @@ export async function forcesDirectRun(settings: ForcesSettings, order: OrderSett
     { name: 'ay', values: result.acc, stride: 3, offset: 1 },
     { name: 'az', values: result.acc, stride: 3, offset: 2 },
   ];
-  await outputWriteAtomic(out, csvChunks(columns, result.targets.length));
+  await outputWriteAtomic(out, csvChunksBytes(columns, result.targets.length, 4096, { transient: true }));
   const seconds = (io.now() - t0) / 1000;
   io.stderr(
     `torusgrav: ${file}: ${n} particles, ${result.targets.length} targets; order ${order.order}${order.background ? '' : ' without background'}, ` +

@@ -5,7 +5,7 @@
  */
 import type { Box } from '../../engine/box';
 import { EngineInputError } from '../../engine/ewald/ewald';
-import { type CsvColumn, csvChunks } from '../../engine/formats/csvWrite';
+import { type CsvColumn, csvChunksBytes } from '../../engine/formats/csvWrite';
 import type { Snapshot } from '../../engine/formats/snapshot';
 import type { SnapshotValidation } from '../../engine/formats/validate';
 import type { PmeOptions } from '../../engine/pme/index';
@@ -104,7 +104,7 @@ export async function forcesPmeRun(settings: ForcesSettings, snapshot: Snapshot,
     { name: 'phi', values: phi },
     ...(errors ? [{ name: 'rel_err', values: errors }] : []),
   ];
-  await outputWriteAtomic(out, csvChunks(columns, targets.length));
+  await outputWriteAtomic(out, csvChunksBytes(columns, targets.length, 4096, { transient: true }));
   const tEnd = io.now();
   const seconds = { read: (tRead - t0) / 1000, compute: (tComputed - tRead) / 1000, write: (tEnd - tComputed) / 1000, total: (tEnd - t0) / 1000 };
   io.stderr(pmeSummary(file, out, settings, snapshot, box, result, targets.length, errors, seconds));
