@@ -2,11 +2,14 @@
  * Data rows of delimited text → typed arrays, fed in pieces (so a file can be streamed, gzip or not).
  * One pass over the bytes, no per-row objects or strings; a line split between two pieces is carried
  * over (only that line is copied). Keeps every `every`-th data row when subsampling.
+ * Where WebAssembly is available, runs of rows whose cells all take the fast paths are parsed by its
+ * twin of this loop (engine/wasm/textParseWasm.ts; same bits); each row it stops at is parsed here.
  */
 import { CELL_OK, DELIM_WHITESPACE, cellEndFind, cellError, cellParse, cellStateMake, isBlank } from './csvCell';
 import { type Layout, SLOT_NAMES } from './csvColumns';
 import { SnapshotFormatError } from './snapshot';
 import { contentEnd, lineSkippable } from './textHead';
+import { textRowsWasmMake } from '../wasm/textParseWasm';
 
 const LF = 10;
 
@@ -58,6 +61,10 @@ export function textRowParserMake(
   let n = 0;
   let rows = 0;
   let carry: Uint8Array | null = null;
+  let wasm = textRowsWasmMake(slotOf, delim, every);
+  /** Rows stored by WebAssembly, and rows it handed back to the code below (when these are most, it is dropped). */
+  let wasmKept = 0;
+  let jsRows = 0;
 
   function grow(): void {
     const next = Math.ceil(cap * 1.5) + 16;
@@ -112,6 +119,23 @@ export function textRowParserMake(
     }
   }
 
+  /** Lines from b[pos] on through WebAssembly while it can parse them; returns where it stopped. */
+  function wasmRows(w: NonNullable<typeof wasm>, b: Uint8Array, pos: number, limit: number): number {
+    do {
+      pos = w.run(b, pos, limit, line, rows % every, cap - n);
+      const k = w.kept;
+      if (k > 0) {
+        w.take(n, positions, massFromColumn ? masses : null, acc, ids, soft, lines);
+        if (!massFromColumn) masses.fill(massDefault, n, n + k);
+        n += k;
+        wasmKept += k;
+      }
+      line += w.lines;
+      rows += w.rows;
+    } while (w.more);
+    return pos;
+  }
+
   /** Parses the lines in b[pos, limit) (the last one may lack its LF at the end of the file). */
   function parse(b: Uint8Array, pos: number, limit: number): void {
     if (b !== lastBuffer) {
@@ -120,7 +144,13 @@ export function textRowParserMake(
       st.textEnd = 0;
       lastBuffer = b;
     }
+    wasm?.forget(); // a reused buffer may hold new bytes
     while (pos < limit) {
+      if (wasm) {
+        pos = wasmRows(wasm, b, pos, limit);
+        if (pos >= limit) break;
+        if (++jsRows > 1024 && jsRows > wasmKept) wasm = null; // mostly slow rows: stay in JavaScript
+      }
       let lineEnd = b.indexOf(LF, pos);
       if (lineEnd < 0 || lineEnd > limit) lineEnd = limit;
       const end = contentEnd(b, pos, lineEnd);
