@@ -10,6 +10,7 @@ import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
 import { type Box } from '../../engine/box';
 import {
+  type EwaldChecked,
   type EwaldChosen,
   type EwaldResult,
   type EwaldSetup,
@@ -18,7 +19,8 @@ import {
   ewaldChoose,
   ewaldFinalize,
   ewaldForces,
-  ewaldRefineWeak,
+  ewaldWeakFind,
+  ewaldWeakReplace,
   ewaldSetupBuild,
   ewaldTargetsValidate,
   ewaldUnsort,
@@ -175,6 +177,92 @@ class Pool {
   }
 }
 
+/**
+ * One threaded run on the pool: raw sums (before ewaldFinalize) for targets `tg` (input rows; `all`: every
+ * particle in order, symmetric real space), in fresh arrays; `checked` as for ewaldSetup.
+ */
+async function threadedRun(
+  pool: Pool,
+  threads: number,
+  positions: Float64Array,
+  masses: Float64Array,
+  box: Box,
+  tg: Int32Array,
+  all: boolean,
+  options: EwaldOptions,
+  checked?: EwaldChecked,
+  clock?: PhaseClock,
+  onProgress?: Progress,
+): Promise<{ setup: EwaldSetup; acc: Float64Array; phi: Float64Array; workerUnits: number }> {
+  const n = masses.length;
+  const K = tg.length;
+  const opts = { ...options, sharedMemory: true };
+  let stopFlag: Int32Array | null = null;
+  try {
+    const chosen = ewaldChoose(positions, masses, box, opts, all ? n : K, checked);
+    const [gx, gy, gz] = chosen.params.cells;
+    const plan = unitsPlan(n, K, gx * gy * gz, threads, all);
+    const shared = unitsShared(threads, chosen.kspace.count);
+    stopFlag = new Int32Array(shared.ctl);
+    // Every reply of a worker, so that a failing worker ends the waits below instead of leaving them hanging.
+    const replies: Promise<WorkerReply>[] = [];
+    const track = (r: Promise<WorkerReply>) => {
+      r.catch(() => undefined); // awaited below, unless this thread fails first (then the workers are stopped)
+      replies.push(r);
+    };
+    const plainChosen = chosenShared(chosen);
+    for (let i = 0; i < pool.size; i++) track(pool.send(i, { type: 'structure', chosen: plainChosen, plan, shared, thread: i + 1 }));
+    clock?.mark('choose');
+    const setup = ewaldSetupBuild(chosen, opts, checked);
+    const accBuf = new SharedArrayBuffer(8 * 3 * K);
+    const phiBuf = new SharedArrayBuffer(8 * K);
+    const tgShared = sharedArray(tg);
+    const built = buildShared(setup);
+    for (let i = 0; i < pool.size; i++) {
+      track(pool.send(i, { type: 'run', ...built, targets: tgShared.buffer as SharedArrayBuffer, acc: accBuf, phi: phiBuf }));
+    }
+    const failed = Promise.all(replies).then(() => new Promise<never>(() => undefined));
+    failed.catch(() => undefined); // raced below; every reply is also awaited
+    clock?.mark('setup (cell list, table)');
+    structureUnitsRun(setup, plan, shared, 0);
+    clock?.mark('structure (own part)');
+    const acc = new Float64Array(accBuf);
+    const phi = new Float64Array(phiBuf);
+    const cursor: RunCursor = { held: -1, ran: 0 };
+    const onUnit = onProgress ? (taken: number, total: number) => onProgress(taken / total) : undefined;
+    while (!runUnits(setup, plan, shared, tg, acc, phi, cursor, onUnit)) {
+      // Another thread is still on its structure-factor units or weighing the sum: wait without blocking
+      // this thread's event loop, so that a worker's failure still arrives.
+      const wait = weightedWaitSlot(plan, stopFlag);
+      if (!wait) continue;
+      const w = Atomics.waitAsync(stopFlag, wait[0], wait[1], 200);
+      if (w.async) await Promise.race([w.value, failed]);
+    }
+    const workerUnits = (await Promise.all(replies)).reduce((u, r) => u + (r.type === 'ran' ? r.units : 0), 0);
+    clock?.mark(all ? 'real + fourier' : 'targets');
+    if (all) {
+      // Each worker unsorts its real-space sums into buffers of its own while this thread does its own;
+      // then they are added here (the same additions, per particle, as unsorting them here).
+      const parts = Array.from({ length: pool.size }, () => ({ acc: new SharedArrayBuffer(8 * 3 * n), phi: new SharedArrayBuffer(8 * n) }));
+      const collected = Promise.all(parts.map((b, i) => pool.send(i, { type: 'collect', acc: b.acc, phi: b.phi })));
+      const own = ewaldAllRealCollect(setup);
+      ewaldUnsort(setup, own.accSorted, own.phiSorted, acc, phi);
+      await collected;
+      for (const b of parts) {
+        const pa = new Float64Array(b.acc), pp = new Float64Array(b.phi);
+        for (let k = 0; k < pa.length; k++) acc[k] += pa[k];
+        for (let k = 0; k < pp.length; k++) phi[k] += pp[k];
+      }
+      clock?.mark('collect');
+    }
+    // Plain (not shared) copies: what the caller keeps.
+    return { setup, acc: new Float64Array(acc), phi: new Float64Array(phi), workerUnits };
+  } catch (e) {
+    if (stopFlag) Atomics.store(stopFlag, CTL_STOP, 1); // the workers stop taking units
+    throw e;
+  }
+}
+
 /** ewaldForcesThreads' result: the engine's, and how many units of work the workers ran (0 on one thread). */
 export interface EwaldThreadsResult extends EwaldResult {
   readonly workerUnits?: number;
@@ -209,81 +297,26 @@ export async function ewaldForcesThreads(
   clock.mark('warm→threads (read, validate)');
   // This thread computes too: threads − 1 workers.
   const pool = new Pool(threads - 1, workerUrl);
-  const K = tg.length;
-  const opts = { ...options, sharedMemory: true };
-  let stopFlag: Int32Array | null = null;
   try {
-    const chosen = ewaldChoose(positions, masses, box, opts, all ? n : K);
-    const [gx, gy, gz] = chosen.params.cells;
-    const plan = unitsPlan(n, K, gx * gy * gz, threads, all);
-    const shared = unitsShared(threads, chosen.kspace.count);
-    stopFlag = new Int32Array(shared.ctl);
-    // Every reply of a worker, so that a failing worker ends the waits below instead of leaving them hanging.
-    const replies: Promise<WorkerReply>[] = [];
-    const track = (r: Promise<WorkerReply>) => {
-      r.catch(() => undefined); // awaited below, unless this thread fails first (then the workers are stopped)
-      replies.push(r);
-    };
-    const plainChosen = chosenShared(chosen);
-    for (let i = 0; i < pool.size; i++) track(pool.send(i, { type: 'structure', chosen: plainChosen, plan, shared, thread: i + 1 }));
-    clock.mark('choose');
-    const setup = ewaldSetupBuild(chosen, opts);
-    const accBuf = new SharedArrayBuffer(8 * 3 * K);
-    const phiBuf = new SharedArrayBuffer(8 * K);
-    const tgShared = sharedArray(tg);
-    const built = buildShared(setup);
-    for (let i = 0; i < pool.size; i++) {
-      track(pool.send(i, { type: 'run', ...built, targets: tgShared.buffer as SharedArrayBuffer, acc: accBuf, phi: phiBuf }));
-    }
-    const failed = Promise.all(replies).then(() => new Promise<never>(() => undefined));
-    failed.catch(() => undefined); // raced below; every reply is also awaited
-    clock.mark('setup (cell list, table)');
-    structureUnitsRun(setup, plan, shared, 0);
-    clock.mark('structure (own part)');
-    const acc = new Float64Array(accBuf);
-    const phi = new Float64Array(phiBuf);
-    const cursor: RunCursor = { held: -1, ran: 0 };
-    const onUnit = onProgress ? (taken: number, total: number) => onProgress(taken / total) : undefined;
-    while (!runUnits(setup, plan, shared, tg, acc, phi, cursor, onUnit)) {
-      // Another thread is still on its structure-factor units or weighing the sum: wait without blocking
-      // this thread's event loop, so that a worker's failure still arrives.
-      const wait = weightedWaitSlot(plan, stopFlag);
-      if (!wait) continue;
-      const w = Atomics.waitAsync(stopFlag, wait[0], wait[1], 200);
-      if (w.async) await Promise.race([w.value, failed]);
-    }
-    const workerUnits = (await Promise.all(replies)).reduce((u, r) => u + (r.type === 'ran' ? r.units : 0), 0);
-    clock.mark(all ? 'real + fourier' : 'targets');
-    if (all) {
-      // Each worker unsorts its real-space sums into buffers of its own while this thread does its own;
-      // then they are added here (the same additions, per particle, as unsorting them here).
-      const parts = Array.from({ length: pool.size }, () => ({ acc: new SharedArrayBuffer(8 * 3 * n), phi: new SharedArrayBuffer(8 * n) }));
-      const collected = Promise.all(parts.map((b, i) => pool.send(i, { type: 'collect', acc: b.acc, phi: b.phi })));
-      const own = ewaldAllRealCollect(setup);
-      ewaldUnsort(setup, own.accSorted, own.phiSorted, acc, phi);
-      await collected;
-      for (const b of parts) {
-        const pa = new Float64Array(b.acc), pp = new Float64Array(b.phi);
-        for (let k = 0; k < pa.length; k++) acc[k] += pa[k];
-        for (let k = 0; k < pp.length; k++) phi[k] += pp[k];
-      }
-      clock.mark('collect');
-    }
-    const accOut = new Float64Array(acc);
-    const phiOut = new Float64Array(phi);
-    ewaldFinalize(setup, tg, accOut, phiOut);
+    const run = await threadedRun(pool, threads, positions, masses, box, tg, all, options, undefined, clock, onProgress);
+    const { setup, acc, phi } = run;
+    ewaldFinalize(setup, tg, acc, phi);
     clock.mark('finalize');
-    const refined = ewaldRefineWeak(positions, masses, box, tg, accOut, phiOut, setup.params, options);
+    // Weak-field refinement (the engine's rule, ewaldRefineWeak), on all threads as well.
+    const weak = ewaldWeakFind(tg, acc, setup.params, options);
+    if (weak) {
+      const r = await threadedRun(pool, threads, positions, masses, box, weak.rows, false, { ...options, tol: weak.tol }, { clustering: setup.params.clustering });
+      ewaldFinalize(r.setup, weak.rows, r.acc, r.phi);
+      ewaldWeakReplace(weak, r, acc, phi);
+    }
+    const refined = weak ? weak.rows.length : 0;
     clock.mark(`refine (${refined})`);
     if (clock.enabled) {
       const timings = await Promise.all(Array.from({ length: pool.size }, (_, i) => pool.send(i, { type: 'timing' })));
       timings.forEach((r, i) => r.type === 'timing' && process.stderr.write(phaseLines(`worker${i}`, phaseTotals(r.records))));
       process.stderr.write(phaseLines('main', clock.records));
     }
-    return { targets: tg, acc: accOut, phi: phiOut, params: setup.params, wrapped: setup.wrapped, refined, workerUnits };
-  } catch (e) {
-    if (stopFlag) Atomics.store(stopFlag, CTL_STOP, 1); // the workers stop taking units
-    throw e;
+    return { targets: tg, acc, phi, params: setup.params, wrapped: setup.wrapped, refined, workerUnits: run.workerUnits };
   } finally {
     pool.close();
   }

@@ -384,10 +384,49 @@ export function ewaldForces(
   return { targets: tg, acc, phi, params: setup.params, wrapped: setup.wrapped, refined };
 }
 
+/** Targets to refine (positions in `targets`, their input rows) and the tolerance to refine them at. */
+export interface EwaldWeak {
+  readonly at: Int32Array;
+  readonly rows: Int32Array;
+  readonly tol: number;
+}
+
 /**
- * A posteriori refinement. The parameters assume no |a| below params.accelerationScale; particles that
- * came out weaker are recomputed (per-target mode) at tol·min|a|/scale (at least 1e-13) and replaced in
- * acc/phi, so their relative error also stays below tol. Skipped when α, r_c or k_c were overridden.
+ * The weak-field targets of a finished run: those whose |a| came out below params.accelerationScale (the
+ * parameters assume none), with the tolerance tol·min|a|/scale (at least 1e-13) that keeps their relative
+ * error below tol; null when there are none, or when α, r_c or k_c were overridden.
+ */
+export function ewaldWeakFind(targets: Int32Array, acc: Float64Array, params: EwaldParams, options: EwaldOptions): EwaldWeak | null {
+  if (options.alpha !== undefined || options.rCut !== undefined || options.kCut !== undefined) return null;
+  const scale = params.accelerationScale;
+  const weak: number[] = [];
+  let aMin = Infinity;
+  for (let t = 0; t < targets.length; t++) {
+    const a = Math.hypot(acc[3 * t], acc[3 * t + 1], acc[3 * t + 2]);
+    if (a < scale) {
+      weak.push(t);
+      aMin = Math.min(aMin, a);
+    }
+  }
+  if (weak.length === 0) return null;
+  const tol = Math.max(1e-13, (params.tol * aMin) / scale);
+  if (tol >= params.tol) return null;
+  return { at: Int32Array.from(weak), rows: Int32Array.from(weak, (t) => targets[t]), tol };
+}
+
+/** Puts a refinement's results (acc 3·weak.rows.length, phi) in place of the weak targets' in acc/phi. */
+export function ewaldWeakReplace(weak: EwaldWeak, refined: { acc: Float64Array; phi: Float64Array }, acc: Float64Array, phi: Float64Array): void {
+  weak.at.forEach((t, k) => {
+    acc[3 * t] = refined.acc[3 * k];
+    acc[3 * t + 1] = refined.acc[3 * k + 1];
+    acc[3 * t + 2] = refined.acc[3 * k + 2];
+    phi[t] = refined.phi[k];
+  });
+}
+
+/**
+ * A posteriori refinement (ewaldWeakFind): the weak-field targets are recomputed (per-target mode) at
+ * their tighter tolerance and replaced in acc/phi, so their relative error also stays below tol.
  * Returns the number of particles refined.
  */
 export function ewaldRefineWeak(
@@ -400,29 +439,11 @@ export function ewaldRefineWeak(
   params: EwaldParams,
   options: EwaldOptions,
 ): number {
-  if (options.alpha !== undefined || options.rCut !== undefined || options.kCut !== undefined) return 0;
-  const scale = params.accelerationScale;
-  const weak: number[] = [];
-  let aMin = Infinity;
-  for (let t = 0; t < targets.length; t++) {
-    const a = Math.hypot(acc[3 * t], acc[3 * t + 1], acc[3 * t + 2]);
-    if (a < scale) {
-      weak.push(t);
-      aMin = Math.min(aMin, a);
-    }
-  }
-  if (weak.length === 0) return 0;
-  const tol = Math.max(1e-13, (params.tol * aMin) / scale);
-  if (tol >= params.tol) return 0;
-  const sub = Int32Array.from(weak, (t) => targets[t]);
-  const r = ewaldForces(positions, masses, box, sub, { ...options, tol }, undefined, false, { clustering: params.clustering });
-  weak.forEach((t, k) => {
-    acc[3 * t] = r.acc[3 * k];
-    acc[3 * t + 1] = r.acc[3 * k + 1];
-    acc[3 * t + 2] = r.acc[3 * k + 2];
-    phi[t] = r.phi[k];
-  });
-  return weak.length;
+  const weak = ewaldWeakFind(targets, acc, params, options);
+  if (!weak) return 0;
+  const r = ewaldForces(positions, masses, box, weak.rows, { ...options, tol: weak.tol }, undefined, false, { clustering: params.clustering });
+  ewaldWeakReplace(weak, r, acc, phi);
+  return weak.rows.length;
 }
 
 /**
