@@ -38,18 +38,16 @@ parentPort!.on('message', (msg: WorkerRequest) => {
         // The Fourier context made in phase 1 (chosen.kWasm) comes along with the spread.
         setup = { ...chosen!, params: msg.params, cells: msg.cells, kernel: msg.kernel };
         const units = runUnitsBlocking(setup, plan!, shared!, new Int32Array(msg.targets), new Float64Array(msg.acc), new Float64Array(msg.phi));
+        if (msg.realAcc && msg.realPhi) {
+          const { accSorted, phiSorted } = ewaldAllRealCollect(setup);
+          ewaldUnsort(setup, accSorted, phiSorted, new Float64Array(msg.realAcc), new Float64Array(msg.realPhi));
+        }
         reply({ type: 'ran', units });
         break;
       }
       case 'timing': {
         reply({ type: 'timing', records: clock.records });
         return;
-      }
-      case 'collect': {
-        const { accSorted, phiSorted } = ewaldAllRealCollect(setup!);
-        ewaldUnsort(setup!, accSorted, phiSorted, new Float64Array(msg.acc), new Float64Array(msg.phi));
-        reply({ type: 'ran', units: 0 });
-        break;
       }
     }
     clock.mark(msg.type);

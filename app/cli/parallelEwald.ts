@@ -218,8 +218,12 @@ async function threadedRun(
     const phiBuf = new SharedArrayBuffer(8 * K);
     const tgShared = sharedArray(tg);
     const built = buildShared(setup);
+    // All-particle runs: each worker unsorts its real-space sums into buffers of its own when its units are
+    // done, while this thread does its own; they are added here (per particle, the same additions as
+    // unsorting them all here).
+    const parts = Array.from({ length: all ? pool.size : 0 }, () => ({ acc: new SharedArrayBuffer(8 * 3 * n), phi: new SharedArrayBuffer(8 * n) }));
     for (let i = 0; i < pool.size; i++) {
-      track(pool.send(i, { type: 'run', ...built, targets: tgShared.buffer as SharedArrayBuffer, acc: accBuf, phi: phiBuf }));
+      track(pool.send(i, { type: 'run', ...built, targets: tgShared.buffer as SharedArrayBuffer, acc: accBuf, phi: phiBuf, realAcc: parts[i]?.acc, realPhi: parts[i]?.phi }));
     }
     const failed = Promise.all(replies).then(() => new Promise<never>(() => undefined));
     failed.catch(() => undefined); // raced below; every reply is also awaited
@@ -238,22 +242,23 @@ async function threadedRun(
       const w = Atomics.waitAsync(stopFlag, wait[0], wait[1], 200);
       if (w.async) await Promise.race([w.value, failed]);
     }
-    const workerUnits = (await Promise.all(replies)).reduce((u, r) => u + (r.type === 'ran' ? r.units : 0), 0);
-    clock?.mark(all ? 'real + fourier' : 'targets');
+    // This thread's real-space sums, unsorted into a buffer of its own: a worker may still be adding
+    // Fourier sums into acc.
+    let own: { acc: Float64Array; phi: Float64Array } | null = null;
     if (all) {
-      // Each worker unsorts its real-space sums into buffers of its own while this thread does its own;
-      // then they are added here (the same additions, per particle, as unsorting them here).
-      const parts = Array.from({ length: pool.size }, () => ({ acc: new SharedArrayBuffer(8 * 3 * n), phi: new SharedArrayBuffer(8 * n) }));
-      const collected = Promise.all(parts.map((b, i) => pool.send(i, { type: 'collect', acc: b.acc, phi: b.phi })));
-      const own = ewaldAllRealCollect(setup);
-      ewaldUnsort(setup, own.accSorted, own.phiSorted, acc, phi);
-      await collected;
-      for (const b of parts) {
-        const pa = new Float64Array(b.acc), pp = new Float64Array(b.phi);
+      const sorted = ewaldAllRealCollect(setup);
+      own = { acc: new Float64Array(3 * n), phi: new Float64Array(n) };
+      ewaldUnsort(setup, sorted.accSorted, sorted.phiSorted, own.acc, own.phi);
+    }
+    const workerUnits = (await Promise.all(replies)).reduce((u, r) => u + (r.type === 'ran' ? r.units : 0), 0);
+    clock?.mark(all ? 'real + fourier, collect' : 'targets');
+    if (own) {
+      for (const b of [own, ...parts.map((q) => ({ acc: new Float64Array(q.acc), phi: new Float64Array(q.phi) }))]) {
+        const pa = b.acc, pp = b.phi;
         for (let k = 0; k < pa.length; k++) acc[k] += pa[k];
         for (let k = 0; k < pp.length; k++) phi[k] += pp[k];
       }
-      clock?.mark('collect');
+      clock?.mark('add the real-space sums');
     }
     // Plain (not shared) copies: what the caller keeps.
     return { setup, acc: new Float64Array(acc), phi: new Float64Array(phi), workerUnits };

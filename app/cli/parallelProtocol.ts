@@ -23,12 +23,12 @@ export type WorkerRequest =
       targets: SharedArrayBuffer;
       acc: SharedArrayBuffer;
       phi: SharedArrayBuffer;
-    }
-  | {
-      /** The worker's real-space sums, unsorted into these (zeroed, input order: 3N and N doubles). */
-      type: 'collect';
-      acc: SharedArrayBuffer;
-      phi: SharedArrayBuffer;
+      /**
+       * All-particle runs: when its units are done, the worker unsorts its real-space sums into these
+       * (zeroed, input order: 3N and N doubles).
+       */
+      realAcc?: SharedArrayBuffer;
+      realPhi?: SharedArrayBuffer;
     }
   | { type: 'timing' };
 
