@@ -107,10 +107,20 @@ async function textStream(
 
 /** Reads the head of the (decompressed) text; returns it with the bytes seen so far. */
 async function headRead(source: ByteSource, fileName: string, options: LoadOptions): Promise<{ head: TextHead; seen: Uint8Array; gzip: boolean }> {
-  let buf = new Uint8Array(0);
+  const gzip = isGzip(await source.read(0, 2));
+  let buf: Uint8Array = new Uint8Array(0);
   let head: TextHead | null = null;
   let done = false;
   await textStream(source, fileName, { ...options, onProgress: undefined }, (piece) => {
+    if (buf.length === 0 && !gzip) {
+      // The first piece: kept as it is (no copy of what may be the whole file) when it holds the head and a
+      // data line, since reading stops here and nothing reuses its buffer after.
+      head = textHeadParse(piece, fileName, false);
+      if (head && piece.indexOf(LF, head.dataBegin) >= 0) {
+        buf = piece;
+        return false;
+      }
+    }
     const joined = new Uint8Array(buf.length + piece.length);
     joined.set(buf);
     joined.set(piece, buf.length);
@@ -122,7 +132,6 @@ async function headRead(source: ByteSource, fileName: string, options: LoadOptio
   }, options.every ?? 1);
   done = true;
   head ??= textHeadParse(buf, fileName, done);
-  const gzip = isGzip(await source.read(0, 2));
   return { head: head!, seen: buf, gzip };
 }
 
