@@ -52,18 +52,22 @@ export function snapshotValidate(s: Snapshot, fileName: string, box: Box, option
       if (!(e[p] >= 0) || !Number.isFinite(e[p])) throw new SnapshotFormatError(fileName, `softening length ${e[p]} must be a finite number ≥ 0`, snapshotPlace(s, p, 'softening'));
     }
   }
-  const wrapped = s.positions.slice();
-  const outside = positionsWrap(wrapped, box);
+  const checkCoincident = !options.softened && options.coincident !== false && s.count > 1;
+  // Particles outside [0, L) on some axis: those positionsWrap moves (counted without a copy when no
+  // wrapped copy is needed for the coincidence search).
+  const sides = [box.lx, box.ly, box.lz];
+  const xyz = s.positions;
+  let outside = 0;
   let firstOutside = -1;
-  if (outside > 0) {
-    for (let i = 0; i < wrapped.length; i++) {
-      if (wrapped[i] !== s.positions[i]) {
-        firstOutside = Math.floor(i / 3);
-        break;
-      }
+  for (let i = 0; i < xyz.length; i += 3) {
+    if (xyz[i] < 0 || xyz[i] >= sides[0] || xyz[i + 1] < 0 || xyz[i + 1] >= sides[1] || xyz[i + 2] < 0 || xyz[i + 2] >= sides[2]) {
+      if (outside === 0) firstOutside = i / 3;
+      outside++;
     }
   }
-  if (!options.softened && options.coincident !== false && s.count > 1) {
+  if (checkCoincident) {
+    const wrapped = s.positions.slice();
+    positionsWrap(wrapped, box);
     const g = Math.max(1, Math.min(256, Math.round(Math.cbrt(s.count / 4))));
     const cells = cellListBuild(wrapped, s.masses, box, [g, g, g], Math.min(box.lx, box.ly, box.lz) / g);
     const pair = cellListFindCoincident(cells);
