@@ -38,6 +38,72 @@ export let gEnd: usize = 0;
   return c == SPACE || c == TAB;
 }
 
+// What cellStart and cellEnding found.
+let gNeg = false;
+let gExp: i32 = 0;
+let gAt: usize = 0;
+
+/** Past the leading blanks and an optional sign of a cell (gNeg: the sign was −). */
+@inline function cellStart(i: usize, end: usize, tabBlank: bool): usize {
+  while (i < end) {
+    const c = <u32>load<u8>(i);
+    if (c == SPACE || (c == TAB && tabBlank)) i++;
+    else break;
+  }
+  gNeg = false;
+  if (i < end) {
+    const c = <u32>load<u8>(i);
+    if (c == PLUS || c == MINUS) {
+      gNeg = c == MINUS;
+      i++;
+    }
+  }
+  return i;
+}
+
+/**
+ * After the digits of a cell at i: the optional exponent [eE][+-]digits (gExp), then what cellParse
+ * accepts before the next cell (blanks, then the delimiter or the line end). False when JavaScript must
+ * parse the cell; else gAt is where the cell ends.
+ */
+@inline function cellEnding(i: usize, end: usize, delim: u32, tabBlank: bool): bool {
+  let e: i32 = 0;
+  if (i < end && (<u32>load<u8>(i) | 32) == 101) {
+    i++;
+    let eneg = false;
+    if (i < end) {
+      const c = <u32>load<u8>(i);
+      if (c == PLUS || c == MINUS) {
+        eneg = c == MINUS;
+        i++;
+      }
+    }
+    let edigits: i32 = 0;
+    while (i < end) {
+      const d = <u32>load<u8>(i) - ZERO;
+      if (d > 9) break;
+      if (e < 100000) e = e * 10 + <i32>d;
+      edigits++;
+      i++;
+    }
+    if (edigits == 0) return false;
+    if (eneg) e = -e;
+  }
+  if (delim == SPACE) {
+    if (i < end && !isBlank(<u32>load<u8>(i))) return false;
+  } else {
+    while (i < end) {
+      const c = <u32>load<u8>(i);
+      if (c == SPACE || (c == TAB && tabBlank)) i++;
+      else break;
+    }
+    if (i < end && <u32>load<u8>(i) != delim) return false;
+  }
+  gExp = e;
+  gAt = i;
+  return true;
+}
+
 /** Index of the end of the cell starting at `i` (the next delimiter, or `end`): cellEndFind. */
 export function cellEndFind(i: usize, end: usize, delim: u32): usize {
   if (delim == SPACE) {
@@ -86,19 +152,8 @@ for (let len = 0; len <= 16; len++) {
  */
 function cellQuick(i: usize, end: usize, delim: u32): i32 {
   const tabBlank = delim != TAB;
-  while (i < end) {
-    const c = <u32>load<u8>(i);
-    if (c == SPACE || (c == TAB && tabBlank)) i++;
-    else break;
-  }
-  let neg = false;
-  if (i < end) {
-    const c = <u32>load<u8>(i);
-    if (c == PLUS || c == MINUS) {
-      neg = c == MINUS;
-      i++;
-    }
-  }
+  i = cellStart(i, end, tabBlank);
+  const neg = gNeg;
   const zero = i8x16.splat(0);
   const ten = i8x16.splat(10);
   const ascii0 = i8x16.splat(<i8>ZERO);
@@ -127,39 +182,9 @@ function cellQuick(i: usize, end: usize, delim: u32): i32 {
   }
   const digits = nInt + nFrac;
   if (digits == 0) return -1;
-  let i2 = j;
-  let e: i32 = 0;
-  if (i2 < end && (<u32>load<u8>(i2) | 32) == 101) {
-    i2++;
-    let eneg = false;
-    if (i2 < end) {
-      const c = <u32>load<u8>(i2);
-      if (c == PLUS || c == MINUS) {
-        eneg = c == MINUS;
-        i2++;
-      }
-    }
-    let edigits: i32 = 0;
-    while (i2 < end) {
-      const d = <u32>load<u8>(i2) - ZERO;
-      if (d > 9) break;
-      if (e < 100000) e = e * 10 + <i32>d;
-      edigits++;
-      i2++;
-    }
-    if (edigits == 0) return 0;
-    if (eneg) e = -e;
-  }
-  if (delim == SPACE) {
-    if (i2 < end && !isBlank(<u32>load<u8>(i2))) return 0;
-  } else {
-    while (i2 < end) {
-      const c = <u32>load<u8>(i2);
-      if (c == SPACE || (c == TAB && tabBlank)) i2++;
-      else break;
-    }
-    if (i2 < end && <u32>load<u8>(i2) != delim) return 0;
-  }
+  if (!cellEnding(j, end, delim, tabBlank)) return 0;
+  const e = gExp;
+  const i2 = gAt;
   let v: f64 = 0;
   if (nz != 0) {
     const first = <i32>ctz(nz);
@@ -192,19 +217,8 @@ function cellQuick(i: usize, end: usize, delim: u32): i32 {
 /** cellParse's byte loop, for the shapes cellQuick leaves (long integer parts, long fractions). */
 function cellScalar(i: usize, end: usize, delim: u32): bool {
   const tabBlank = delim != TAB;
-  while (i < end) {
-    const c = <u32>load<u8>(i);
-    if (c == SPACE || (c == TAB && tabBlank)) i++;
-    else break;
-  }
-  let neg = false;
-  if (i < end) {
-    const c = <u32>load<u8>(i);
-    if (c == PLUS || c == MINUS) {
-      neg = c == MINUS;
-      i++;
-    }
-  }
+  i = cellStart(i, end, tabBlank);
+  const neg = gNeg;
   // Significant digits: the first 15 in mant, the next up to 4 in tail; zeros after a significant digit
   // wait in `zeros` (exactly as in cellParse).
   let mant: u64 = 0;
@@ -253,38 +267,9 @@ function cellScalar(i: usize, end: usize, delim: u32): bool {
     tailDigits++;
   }
   if (digits == 0) return false;
-  let e: i32 = 0;
-  if (i < end && (<u32>load<u8>(i) | 32) == 101) {
-    i++;
-    let eneg = false;
-    if (i < end) {
-      const c = <u32>load<u8>(i);
-      if (c == PLUS || c == MINUS) {
-        eneg = c == MINUS;
-        i++;
-      }
-    }
-    let edigits: i32 = 0;
-    while (i < end) {
-      const d = <u32>load<u8>(i) - ZERO;
-      if (d > 9) break;
-      if (e < 100000) e = e * 10 + <i32>d;
-      edigits++;
-      i++;
-    }
-    if (edigits == 0) return false;
-    if (eneg) e = -e;
-  }
-  if (delim == SPACE) {
-    if (i < end && !isBlank(<u32>load<u8>(i))) return false;
-  } else {
-    while (i < end) {
-      const c = <u32>load<u8>(i);
-      if (c == SPACE || (c == TAB && tabBlank)) i++;
-      else break;
-    }
-    if (i < end && <u32>load<u8>(i) != delim) return false;
-  }
+  if (!cellEnding(i, end, delim, tabBlank)) return false;
+  const e = gExp;
+  i = gAt;
   const exp10 = dexp + e + zeros; // zeros: trailing ones, not in M
   let v: f64;
   if (mant == 0) v = 0;
