@@ -7,6 +7,7 @@
 import { describe, expect, it } from 'vitest';
 import { csvChunksBytes } from '../../../engine/formats/csvWrite';
 import { TEXT_FORMAT_BASE, textFormatInstance } from '../../../engine/wasm/textFormatWasm';
+import { uint32Seeded } from '../../helpers/uint32Seeded';
 
 const ex = textFormatInstance();
 const dec = new TextDecoder();
@@ -72,17 +73,6 @@ function refToPrecision17(v: number): string {
   return `${sign}0.${'0'.repeat(-e - 1)}${d}`;
 }
 
-/** Seeded 32-bit generator (mulberry32) so that failures reproduce. */
-function rng32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return (t ^ (t >>> 14)) >>> 0;
-  };
-}
 
 /** Formats the values as one CSV column through csvChunksBytes; returns the mismatches with toPrecision(17). */
 function mismatchesThroughCsv(values: Float64Array): string[] {
@@ -122,7 +112,7 @@ describe('engine/wasm/textFormatWasm.ts: the WebAssembly formatter', () => {
   });
 
   it('writes toPrecision(17) (ECMA-262 §21.1.3.5) for 1 000 000 random bit patterns over all exponents', () => {
-    const next = rng32(20261202);
+    const next = uint32Seeded(20261202);
     const values = new Float64Array(1_000_000);
     const words = new Uint32Array(values.buffer);
     for (let i = 0; i < words.length; i++) words[i] = next();
@@ -131,7 +121,7 @@ describe('engine/wasm/textFormatWasm.ts: the WebAssembly formatter', () => {
   });
 
   it('writes toPrecision(17) for 1 000 000 values in force ranges 1e-12 … 1e6, both signs', () => {
-    const next = rng32(7);
+    const next = uint32Seeded(7);
     const values = new Float64Array(1_000_000);
     for (let i = 0; i < values.length; i++) {
       const sign = next() & 1 ? -1 : 1;
@@ -161,7 +151,7 @@ describe('engine/wasm/textFormatWasm.ts: the WebAssembly formatter', () => {
   });
 
   it('agrees on every binary exponent (first, last and a random significand)', () => {
-    const next = rng32(11);
+    const next = uint32Seeded(11);
     const cases: number[] = [];
     for (let be = 1n; be <= 2046n; be++) {
       const r = (BigInt(next()) << 20n) | BigInt(next() >>> 12);
@@ -193,7 +183,7 @@ describe('engine/wasm/textFormatWasm.ts: the WebAssembly formatter', () => {
     // of x is d·5^j > 2^53, so no double is such a tie (integers in 2^53 … 2^57 are even and tie never).
     // For j = −i < 0, x = d / (2^i·5^i) is a double only when 5^i divides d: x = q / 2^i with q odd,
     // q·5^i = d. So the ties are the dyadic fractions q / 2^i whose q·5^i has 18 digits.
-    const next = rng32(5);
+    const next = uint32Seeded(5);
     const ties: number[] = [];
     for (let i = 2; i <= 25; i++) {
       const lo = pow10(17) / 5n ** BigInt(i) + 1n;

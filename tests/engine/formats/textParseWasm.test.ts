@@ -12,20 +12,10 @@ import { type ColumnMapping, SnapshotFormatError } from '../../../engine/formats
 import { textHeadParse } from '../../../engine/formats/textHead';
 import { type TextRowsResult, textRowParserMake } from '../../../engine/formats/textRows';
 import { OUT_ROWS, textParseModule, textRowsWasmMake } from '../../../engine/wasm/textParseWasm';
+import { uint32Seeded } from '../../helpers/uint32Seeded';
 
 const enc = new TextEncoder();
 
-/** A small seeded generator (mulberry32): uint32 values. */
-function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return (t ^ (t >>> 14)) >>> 0;
-  };
-}
 
 function withWasm<T>(on: boolean, f: () => T): T {
   const g = globalThis as { TORUSGRAV_NO_WASM?: boolean };
@@ -203,7 +193,7 @@ describe('text rows through WebAssembly', () => {
   });
 
   it('parses most rows of 17-digit output itself, and hands back rows off its fast paths', () => {
-    const r = rng(5);
+    const r = uint32Seeded(5);
     const fast = fileText(['x', 'y', 'z', 'm'], randomRows(r, 3000, 4, (q) => ((q() / 2 ** 32) * 10 ** ((q() % 20) - 10)).toPrecision(17)), ',', r);
     const share = wasmShare(enc.encode(fast));
     expect(share.rows).toBe(3000);
@@ -216,7 +206,7 @@ describe('text rows through WebAssembly', () => {
   for (const [name, sep] of Object.entries(SEPS)) {
     it(`gives the JavaScript bits, lines and counts: ${name}, CRLF, blank and # lines, signs, every form of number`, () => {
       for (let seed = 1; seed <= 4; seed++) {
-        const r = rng(seed * 31 + sep.length);
+        const r = uint32Seeded(seed * 31 + sep.length);
         const text = fileText(['x', 'y', 'z', 'm'], randomRows(r, 1500, 4), sep, r, true);
         const bytes = enc.encode(text);
         const cuts = Array.from({ length: seed }, () => r() % bytes.length);
@@ -228,7 +218,7 @@ describe('text rows through WebAssembly', () => {
   }
 
   it('gives the JavaScript bits on the hard cases, one per row, including -0 (Object.is)', () => {
-    const r = rng(77);
+    const r = uint32Seeded(77);
     const rows = HARD.map((h, k) => [h, HARD[(k * 7) % HARD.length], `-${h.replace(/^[+-]/, '')}`]);
     const out = expectSamePaths(enc.encode(fileText(['x', 'y', 'z'], rows, ',', r)));
     expect(out.ok).toBe(true);
@@ -239,7 +229,7 @@ describe('text rows through WebAssembly', () => {
   });
 
   it('reads the columns a mapping names in any order, skips unused ones (text too), and reads acc, ids and softening', () => {
-    const r = rng(11);
+    const r = uint32Seeded(11);
     for (const [name, sep] of Object.entries(SEPS)) {
       const header = ['note', 'vz', 'z', 'id', 'x', 'skip', 'm', 'y', 'vx', 'vy', 'eps', 'tail'];
       const rows = randomRows(r, 2000, header.length, (q, c) =>
@@ -254,7 +244,7 @@ describe('text rows through WebAssembly', () => {
   });
 
   it('subsamples every k-th data row like JavaScript (blank and # lines not counted)', () => {
-    const r = rng(12);
+    const r = uint32Seeded(12);
     const bytes = enc.encode(fileText(['x', 'y', 'z', 'm'], randomRows(r, 5000, 4), ',', r, true));
     for (const every of [1, 2, 3, 7, 4999, 5000, 6000]) {
       const out = expectSamePaths(bytes, { every, cuts: [1000, 70000, 70001], capacity: every === 3 ? 4 : Math.ceil(5000 / every) + 1 });
@@ -263,7 +253,7 @@ describe('text rows through WebAssembly', () => {
   });
 
   it('streams a file of many windows and output blocks, in odd pieces, with a line longer than a window (1 MiB)', () => {
-    const r = rng(13);
+    const r = uint32Seeded(13);
     const rows = randomRows(r, 30000, 5, (q, c) => (c === 4 ? 'u' : ((q() / 2 ** 32) * 1e3).toPrecision(1 + (q() % 17))));
     rows[12345][4] = 'w'.repeat((1 << 20) + 100); // an unused cell longer than the window
     const bytes = enc.encode(fileText(['x', 'y', 'z', 'm', 'note'], rows, ',', r));
@@ -277,7 +267,7 @@ describe('text rows through WebAssembly', () => {
   });
 
   it('reads pieces pushed in one reused buffer (as a stream reads into one buffer): new bytes, same object', () => {
-    const r = rng(14);
+    const r = uint32Seeded(14);
     // Rows of one length and pieces of whole rows: every push is the same object, starting a line.
     const bytes = enc.encode(fileText(['x', 'y', 'z', 'm'], randomRows(r, 3000, 4, (q) => (q() / 2 ** 32).toFixed(15)), ',', r));
     const head = textHeadParse(bytes, 'f.csv', true)!;
@@ -301,7 +291,7 @@ describe('text rows through WebAssembly', () => {
   });
 
   it('two parses interleaved on one thread (two files loading at once) share the instance without mixing', () => {
-    const r = rng(15);
+    const r = uint32Seeded(15);
     const files = [',', '\t'].map((sep, k) => enc.encode(fileText(k ? ['m', 'x', 'y', 'z'] : ['x', 'y', 'z', 'm'], randomRows(r, 2000, 4, (q) => (q() / 2 ** 32).toPrecision(17)), sep, r)));
     const run = (on: boolean) =>
       withWasm(on, () => {
@@ -322,7 +312,7 @@ describe('text rows through WebAssembly', () => {
   });
 
   it('a file of mostly slow rows (more than 19 digits: Number()), where the parser drops WebAssembly midway', () => {
-    const r = rng(16);
+    const r = uint32Seeded(16);
     const rows = randomRows(r, 4000, 3, (q, c) => (c === 1 && q() % 8 !== 0 ? '0.' + String(q()).padStart(10, '7') + String(q()).padStart(10, '3') : (q() / 2 ** 32).toPrecision(17)));
     const out = expectSamePaths(enc.encode(fileText(['x', 'y', 'z'], rows, ',', r)), { cuts: [30000, 60000] });
     expect(out.ok && out.r.count).toBe(4000);
@@ -339,7 +329,7 @@ describe('text rows through WebAssembly: errors', () => {
   const bad = ['', '  ', 'abc', 'NaN', '-nan', 'Inf', '+Infinity', '-inf', '1e400', '-1e400', '1.5.5', '1e', '1e+', '+', '--1', '0x10', '1 2', '.', 'e5', '1d5', '\u00e9', '7,'];
   for (const [name, sep] of Object.entries(SEPS)) {
     it(`every refused cell gives the JavaScript error (message, row, particle, column): ${name}`, () => {
-      const r = rng(21);
+      const r = uint32Seeded(21);
       const rows = randomRows(r, 600, 4, (q) => ((q() / 2 ** 32) * 10).toPrecision(17));
       let refused = 0;
       for (const cell of bad) {
@@ -356,7 +346,7 @@ describe('text rows through WebAssembly: errors', () => {
   }
 
   it('a short row, a row cut short by a trailing delimiter, and an id that is not an integer', () => {
-    const r = rng(22);
+    const r = uint32Seeded(22);
     const rows = randomRows(r, 400, 5, (q, c) => (c === 4 ? String(q() % 1000) : ((q() / 2 ** 32) * 10).toPrecision(17)));
     for (const sep of Object.values(SEPS)) {
       const a = rows.map((row) => row.slice());
@@ -375,7 +365,7 @@ describe('text rows through WebAssembly: errors', () => {
   });
 
   it('a bad cell in a row left out by subsampling, or in an unused column, is not an error on either path', () => {
-    const r = rng(23);
+    const r = uint32Seeded(23);
     const rows = randomRows(r, 300, 5, (q) => ((q() / 2 ** 32) * 10).toPrecision(17));
     rows[101][0] = 'abc';
     rows[200][4] = 'abc';
@@ -386,7 +376,7 @@ describe('text rows through WebAssembly: errors', () => {
 
 describe('text rows through WebAssembly: values against Number()', () => {
   it('100 000 random values read back exactly as Number() reads the same text (correctly rounded, ECMA-262)', () => {
-    const r = rng(99);
+    const r = uint32Seeded(99);
     const n = 25_000;
     const rows = randomRows(r, n, 4);
     const bytes = enc.encode(fileText(['x', 'y', 'z', 'm'], rows, ',', r));
