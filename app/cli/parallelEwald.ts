@@ -25,6 +25,7 @@ import {
   ewaldTargetsValidate,
   ewaldUnsort,
 } from '../../engine/ewald/ewald';
+import { targetsAll, targetsAreAll } from '../../engine/targets';
 import type { EwaldOptions } from '../../engine/ewald/params';
 import { kernelModule } from '../../engine/wasm/module';
 import { CTL_STOP, type RunCursor, runUnits, structureUnitsRun, unitsPlan, unitsShared, weightedWaitSlot } from './ewaldUnits';
@@ -294,9 +295,9 @@ export async function ewaldForcesThreads(
     warmTake(-1, workerUrl);
     return ewaldForces(positions, masses, box, targets, options, onProgress);
   }
-  const tg = targets ?? Int32Array.from({ length: n }, (_, i) => i);
-  ewaldTargetsValidate(tg, n);
-  const all = tg.length === n && tg.every((v, i) => v === i);
+  const tg = targets ?? targetsAll(n);
+  if (targets) ewaldTargetsValidate(tg, n);
+  const all = !targets || targetsAreAll(tg, n);
   const clock = warmClock ?? new PhaseClock();
   warmClock = null;
   clock.mark('warm→threads (read, validate)');

@@ -10,6 +10,7 @@
  * conventions as the Ewald reference (a = −∇φ, mean density removed). Forces are smoothed below about
  * two cells: that is the error pattern it exists for.
  */
+import { targetsAll } from '../targets';
 import { type Box, boxVolume } from '../box';
 import { meshFftCreate, meshFftForward, meshFftInverse, meshFftLength, meshFftScratch } from '../pme/fft3d';
 
@@ -179,7 +180,7 @@ export function meshForces(
 ): MeshResult {
   const setup = meshSetup(positions, masses, box, options);
   onProgress?.(0.5);
-  const tg = targets ?? Int32Array.from({ length: masses.length }, (_, i) => i);
+  const tg = targets ?? targetsAll(masses.length);
   const acc = new Float64Array(3 * tg.length);
   const chunk = 65536;
   for (let b = 0; b < tg.length; b += chunk) {

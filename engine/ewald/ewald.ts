@@ -8,6 +8,7 @@
  * ewaldAllRealChunk + ewaldFourierChunk → ewaldFinalize. ewaldForces runs them all on one thread.
  */
 import { float64s } from '../util/arrays';
+import { targetsAll, targetsAreAll } from '../targets';
 import { type Box, boxMake, boxVolume, positionsWrap } from '../box';
 import { type CellList, cellListBuild, cellListCoordinates, cellListNeighbour } from './cellList';
 import { type KernelTable, kernelTableBuild } from './kernelTable';
@@ -323,11 +324,6 @@ export function ewaldTargetsValidate(targets: Int32Array, n: number): void {
   }
 }
 
-function isAll(targets: Int32Array, n: number): boolean {
-  if (targets.length !== n) return false;
-  for (let i = 0; i < n; i++) if (targets[i] !== i) return false;
-  return true;
-}
 
 /**
  * Ewald accelerations and potentials on one thread for `targets` (input rows; null = all), then the
@@ -345,9 +341,9 @@ export function ewaldForces(
   checked?: EwaldChecked,
 ): EwaldResult {
   const n = masses.length;
-  const tg = targets ?? Int32Array.from({ length: n }, (_, i) => i);
-  ewaldTargetsValidate(tg, n);
-  const all = isAll(tg, n);
+  const tg = targets ?? targetsAll(n);
+  if (targets) ewaldTargetsValidate(tg, n);
+  const all = !targets || targetsAreAll(tg, n);
   const setup = ewaldSetup(positions, masses, box, options, all ? n : tg.length, checked);
   const sf = new Float64Array(2 * setup.kspace.count);
   const sourceStep = Math.max(1024, Math.ceil(n / 8));

@@ -11,6 +11,7 @@
  * the Ewald accelerations of the same targets, for the predicted limit). imageSumOrder runs them all on one
  * thread, with the Ewald reference from ewaldForces.
  */
+import { targetsAll } from '../targets';
 import { type Box, positionsWrap } from '../box';
 import { EngineInputError, type Progress, ewaldForces } from '../ewald/ewald';
 import { extrapolateToZero } from './extrapolation';
@@ -275,7 +276,7 @@ export function imageSumOrder(
   options: ImageSumOptions,
   onProgress?: Progress,
 ): ImageSumResult {
-  const tg = targets ?? Int32Array.from({ length: masses.length }, (_, i) => i);
+  const tg = targets ?? targetsAll(masses.length);
   const setup = imageSumSetup(positions, masses, box, options, tg.length);
   validateTargets(tg, masses.length);
   onProgress?.(0.1);

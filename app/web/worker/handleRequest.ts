@@ -3,6 +3,7 @@
  * `post`. Each request type maps to one engine call (or a short loop of them); nothing numerical
  * happens here.
  */
+import { targetsAll } from '../../../engine/targets';
 import { demoSnapshot } from '../../../engine/demo/demoSnapshot';
 import { ewaldForces } from '../../../engine/ewald/ewald';
 import { meshForces } from '../../../engine/codeUnderTest/meshForces';
@@ -69,7 +70,7 @@ export async function requestRun(request: RequestBody, progress: (fraction: numb
     case 'neighbours': {
       // the tree first, then the targets in chunks, reporting progress between them
       const n = request.positions.length / 3;
-      const targets = request.targets ?? Int32Array.from({ length: n }, (_, i) => i);
+      const targets = request.targets ?? targetsAll(n);
       const tree = neighbourTreeBuild(request.positions, request.box);
       progress(0.2);
       const step = 8192;

@@ -3,6 +3,7 @@
  * (engine calls only). Long runs go in chunks of targets (orders) or phases (PME) with progress between
  * them; cancelling terminates the worker (client.ts), so no chunk needs to look for it.
  */
+import { targetsAll } from '../../../engine/targets';
 import type { Box } from '../../../engine/box';
 import type { Progress } from '../../../engine/ewald/ewald';
 import { extrapolateToZero } from '../../../engine/orders/extrapolation';
@@ -99,7 +100,7 @@ function unlimited(options: ImageSumOptions): ImageSumOptions {
 /** An order over the targets in chunks: final accelerations only (largest shell, λ → 0, or nearest image). */
 export function orderRun(r: OrderRequest, progress: Progress): MethodForcesPayload {
   const n = r.masses.length;
-  const targets = r.targets ?? Int32Array.from({ length: n }, (_, i) => i);
+  const targets = r.targets ?? targetsAll(n);
   const K = targets.length;
   const step = chunkSize(K);
   const setup = imageSumSetup(r.positions, r.masses, r.box, unlimited(r.options), Math.min(K, step));
@@ -135,7 +136,7 @@ export function orderTraceRun(r: OrderTraceRequest, progress: Progress): OrderTr
 /** The payload of a PME run: the targets' rows of its all-particle result. */
 function pmePayload(r: PmeRequest, res: PmeResult, threads: number): MethodForcesPayload {
   const n = r.masses.length;
-  const targets = r.targets ?? Int32Array.from({ length: n }, (_, i) => i);
+  const targets = r.targets ?? targetsAll(n);
   let acc = res.acc;
   if (r.targets) {
     acc = new Float64Array(3 * targets.length);
