@@ -180,7 +180,8 @@ class Pool {
 
 /**
  * One threaded run on the pool: raw sums (before ewaldFinalize) for targets `tg` (input rows; `all`: every
- * particle in order, symmetric real space), in fresh arrays; `checked` as for ewaldSetup.
+ * particle in order, symmetric real space), in fresh arrays, with the threads' real-space sums of an
+ * all-particle run apart (realParts, for ewaldFinalize to add); `checked` as for ewaldSetup.
  */
 async function threadedRun(
   pool: Pool,
@@ -194,7 +195,7 @@ async function threadedRun(
   checked?: EwaldChecked,
   clock?: PhaseClock,
   onProgress?: Progress,
-): Promise<{ setup: EwaldSetup; acc: Float64Array; phi: Float64Array; workerUnits: number }> {
+): Promise<{ setup: EwaldSetup; acc: Float64Array; phi: Float64Array; realParts: { acc: Float64Array; phi: Float64Array }[]; workerUnits: number }> {
   const n = masses.length;
   const K = tg.length;
   const opts = { ...options, sharedMemory: true };
@@ -253,16 +254,9 @@ async function threadedRun(
     }
     const workerUnits = (await Promise.all(replies)).reduce((u, r) => u + (r.type === 'ran' ? r.units : 0), 0);
     clock?.mark(all ? 'real + fourier, collect' : 'targets');
-    if (own) {
-      for (const b of [own, ...parts.map((q) => ({ acc: new Float64Array(q.acc), phi: new Float64Array(q.phi) }))]) {
-        const pa = b.acc, pp = b.phi;
-        for (let k = 0; k < pa.length; k++) acc[k] += pa[k];
-        for (let k = 0; k < pp.length; k++) phi[k] += pp[k];
-      }
-      clock?.mark('add the real-space sums');
-    }
-    // Plain (not shared) copies: what the caller keeps.
-    return { setup, acc: new Float64Array(acc), phi: new Float64Array(phi), workerUnits };
+    // Plain (not shared) copies: what the caller keeps. The real-space parts are added by ewaldFinalize.
+    const realParts = own ? [own, ...parts.map((q) => ({ acc: new Float64Array(q.acc), phi: new Float64Array(q.phi) }))] : [];
+    return { setup, acc: new Float64Array(acc), phi: new Float64Array(phi), realParts, workerUnits };
   } catch (e) {
     if (stopFlag) Atomics.store(stopFlag, CTL_STOP, 1); // the workers stop taking units
     throw e;
@@ -306,13 +300,13 @@ export async function ewaldForcesThreads(
   try {
     const run = await threadedRun(pool, threads, positions, masses, box, tg, all, options, undefined, clock, onProgress);
     const { setup, acc, phi } = run;
-    ewaldFinalize(setup, tg, acc, phi);
+    ewaldFinalize(setup, tg, acc, phi, run.realParts);
     clock.mark('finalize');
     // Weak-field refinement (the engine's rule, ewaldRefineWeak), on all threads as well.
     const weak = ewaldWeakFind(tg, acc, setup.params, options);
     if (weak) {
       const r = await threadedRun(pool, threads, positions, masses, box, weak.rows, false, { ...options, tol: weak.tol }, { clustering: setup.params.clustering });
-      ewaldFinalize(r.setup, weak.rows, r.acc, r.phi);
+      ewaldFinalize(r.setup, weak.rows, r.acc, r.phi, r.realParts);
       ewaldWeakReplace(weak, r, acc, phi);
     }
     const refined = weak ? weak.rows.length : 0;

@@ -286,17 +286,33 @@ export function ewaldUnsort(setup: EwaldSetup, accSorted: Float64Array, phiSorte
 
 /**
  * Turns raw sums into physical results in place: acc ← G·acc; phi ← −G(phi + m_i(−2α/√π) − πM/(α²V)),
- * i.e. adds the self term and the neutralising-background constant of the zero-mean potential.
+ * i.e. adds the self term and the neutralising-background constant of the zero-mean potential. `parts`:
+ * further raw sums of the same targets (e.g. other threads' real-space sums), added first, in order —
+ * the same additions as adding them into acc/phi beforehand, in one pass.
  */
-export function ewaldFinalize(setup: EwaldSetup, targets: Int32Array, acc: Float64Array, phi: Float64Array): void {
+export function ewaldFinalize(
+  setup: EwaldChosen,
+  targets: Int32Array,
+  acc: Float64Array,
+  phi: Float64Array,
+  parts: readonly { readonly acc: Float64Array; readonly phi: Float64Array }[] = [],
+): void {
   const { G, alpha } = setup.params;
   const background = (Math.PI * setup.totalMass) / (alpha * alpha * boxVolume(setup.box));
   const selfCoef = (2 * alpha) / Math.sqrt(Math.PI);
+  const masses = setup.masses;
   for (let t = 0; t < targets.length; t++) {
-    acc[3 * t] *= G;
-    acc[3 * t + 1] *= G;
-    acc[3 * t + 2] *= G;
-    phi[t] = -G * (phi[t] - setup.masses[targets[t]] * selfCoef - background);
+    let ax = acc[3 * t], ay = acc[3 * t + 1], az = acc[3 * t + 2], p = phi[t];
+    for (const q of parts) {
+      ax += q.acc[3 * t];
+      ay += q.acc[3 * t + 1];
+      az += q.acc[3 * t + 2];
+      p += q.phi[t];
+    }
+    acc[3 * t] = G * ax;
+    acc[3 * t + 1] = G * ay;
+    acc[3 * t + 2] = G * az;
+    phi[t] = -G * (p - masses[targets[t]] * selfCoef - background);
   }
 }
 
