@@ -4,7 +4,8 @@
  *   choose (here: wrap, parameters, k-vectors; the workers, which ewaldThreadsWarm may have started
  *   while the snapshot was read, start on the structure factor at once) → cell list (here, meanwhile) →
  *   structure-factor units, then real-space cell units and Fourier units, which every thread takes from
- *   shared counters (ewaldUnits.ts) → collect, unsort, finalize and the weak-field refinement here.
+ *   shared counters (ewaldUnits.ts) → each thread unsorts its real-space sums → finalize (adding them) and
+ *   the weak-field refinement (a second threaded run on the same workers) here.
  */
 import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
