@@ -16,7 +16,8 @@ import type { CliIo } from './cliIo';
 import { outsideWarning, targetIds, withEngineErrors } from './engineErrors';
 import { mappingFromOptions, sizeParse } from './mappingOptions';
 import { BOX_OPTION, boxParse, integerParse, numberParse, positiveParse, targetSpecParse } from './optionValues';
-import { ORDER_OPTIONS, imageSumRun, orderEngineOptions, orderSettings } from './orderOptions';
+import { ORDER_OPTIONS, orderEngineOptions, orderSettings } from './orderOptions';
+import { imageSumRun } from './orderRun';
 import { progressLine } from './progress';
 import { snapshotFileRead } from './snapshotFile';
 

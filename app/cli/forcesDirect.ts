@@ -13,7 +13,8 @@ import { CliError } from './cliErrors';
 import type { CliIo } from './cliIo';
 import { outsideWarning, targetIds, withEngineErrors } from './engineErrors';
 import type { ForcesSettings } from './forcesOptions';
-import { type OrderSettings, imageSumRun, orderEngineOptions } from './orderOptions';
+import { type OrderSettings, orderEngineOptions } from './orderOptions';
+import { imageSumRun } from './orderRun';
 import { progressLine } from './progress';
 import { particlePlace } from './snapshotFile';
 

@@ -1,21 +1,18 @@
 /**
  * The summation-order options shared by `torusgrav forces --method direct` and `torusgrav converge`
- * (--order, --shells, --no-background, --lambdas, --max-work): their specs for help, their checking
- * (UsageError naming the option), and running the engine's image sum with its messages in option terms.
+ * (--order, --shells, --no-background, --lambdas, --max-work): their specs for help and their checking
+ * (UsageError naming the option). Running the image sum is in orderRun.ts, so that parsing these options
+ * does not load the image-sum engine.
  */
-import type { Box } from '../../engine/box';
-import type { Progress } from '../../engine/ewald/ewald';
 import {
   IMAGE_SUM_MAX_WORK_DEFAULT,
   IMAGE_SUM_ORDERS,
   IMAGE_SUM_SHELLS_MAX,
   type ImageSumOptions,
   type ImageSumOrderName,
-  type ImageSumResult,
-  imageSumOrder,
-} from '../../engine/orders';
+} from '../../engine/orders/imageSumOptions';
 import type { OptionSpec } from './argParse';
-import { CliError, UsageError } from './cliErrors';
+import { UsageError } from './cliErrors';
 import { integerParse, numberParse } from './optionValues';
 
 /** The option specs (help text is shared by both commands). */
@@ -124,31 +121,4 @@ export function orderEngineOptions(s: OrderSettings, G: number, tol: number | un
     ...(s.lambdas !== undefined ? { lambdas: s.lambdas } : {}),
     ...(tol !== undefined ? { tol } : {}),
   };
-}
-
-/** The engine's option names in its RangeError messages, in command-line terms. */
-function engineMessageInOptionTerms(message: string): string {
-  return message
-    .replace(/raise maxWork/g, 'raise it with --max-work N')
-    .replace(/above maxWork/g, 'above --max-work')
-    .replace(/^tol must/, '--tol must')
-    .replace(/^shells must/, '--shells must')
-    .replace(/^lambdas/, '--lambdas');
-}
-
-/** imageSumOrder with the engine's option complaints (RangeError) turned into one-line exit-2 errors. */
-export function imageSumRun(
-  positions: Float64Array,
-  masses: Float64Array,
-  box: Box,
-  targets: Int32Array | null,
-  options: ImageSumOptions,
-  onProgress?: Progress,
-): ImageSumResult {
-  try {
-    return imageSumOrder(positions, masses, box, targets, options, onProgress);
-  } catch (e) {
-    if (e instanceof RangeError) throw new CliError(engineMessageInOptionTerms(e.message), 2);
-    throw e;
-  }
 }
