@@ -5,6 +5,7 @@
  */
 import { base64Bytes } from '../util/base64';
 import { KERNELS_WASM_BASE64 } from './kernelsBinary';
+import { wasmDisabled } from './disabled';
 
 export interface KernelExports {
   memory: WebAssembly.Memory;
@@ -14,14 +15,9 @@ export interface KernelExports {
 
 let cached: WebAssembly.Module | null | undefined;
 
-function disabled(): boolean {
-  const g = globalThis as { TORUSGRAV_NO_WASM?: boolean; process?: { env?: Record<string, string | undefined> } };
-  return g.TORUSGRAV_NO_WASM === true || g.process?.env?.TORUSGRAV_NO_WASM === '1';
-}
-
 /** The compiled kernel module, or null when WebAssembly SIMD cannot be used here. */
 export function kernelModule(): WebAssembly.Module | null {
-  if (disabled()) return null;
+  if (wasmDisabled()) return null;
   if (cached !== undefined) return cached;
   try {
     const bytes = base64Bytes(KERNELS_WASM_BASE64);
@@ -37,7 +33,7 @@ export function kernelModule(): WebAssembly.Module | null {
  * one module share its compiled code, including the optimised tier. Ignored where the kernels are off.
  */
 export function kernelModuleShare(mod: WebAssembly.Module | null): void {
-  if (!disabled() && mod) cached = mod;
+  if (!wasmDisabled() && mod) cached = mod;
 }
 
 /** A fresh instance (own linear memory) of the kernels, or null. */

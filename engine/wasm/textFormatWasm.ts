@@ -7,6 +7,7 @@
  */
 import { base64Bytes } from '../util/base64';
 import { TEXT_FORMAT_WASM_BASE64 } from './textFormatBinary';
+import { wasmDisabled } from './disabled';
 
 export interface TextFormatExports {
   memory: WebAssembly.Memory;
@@ -36,14 +37,9 @@ export const TEXT_FORMAT_BASE = 65536;
 
 let instance: TextFormatExports | null | undefined;
 
-function disabled(): boolean {
-  const g = globalThis as { TORUSGRAV_NO_WASM?: boolean; process?: { env?: Record<string, string | undefined> } };
-  return g.TORUSGRAV_NO_WASM === true || g.process?.env?.TORUSGRAV_NO_WASM === '1';
-}
-
 /** This thread's formatter instance, or null when WebAssembly cannot or must not be used. */
 export function textFormatInstance(): TextFormatExports | null {
-  if (disabled()) return null;
+  if (wasmDisabled()) return null;
   if (instance !== undefined) return instance;
   try {
     const g = globalThis as { WebAssembly?: typeof WebAssembly };

@@ -12,6 +12,7 @@
  */
 import { base64Bytes } from '../util/base64';
 import { TEXT_PARSE_WASM_BASE64 } from './textParseBinary';
+import { wasmDisabled } from './disabled';
 
 interface TextParseExports {
   memory: WebAssembly.Memory;
@@ -45,16 +46,11 @@ const IN = OUT_LINES + 4 * OUT_ROWS;
 /** The window, a byte after it that is not a digit, and the 48 bytes the 16-byte loads may read past a cell. */
 const MEMORY_BYTES = IN + WINDOW + 64;
 
-function disabled(): boolean {
-  const g = globalThis as { TORUSGRAV_NO_WASM?: boolean; process?: { env?: Record<string, string | undefined> } };
-  return g.TORUSGRAV_NO_WASM === true || g.process?.env?.TORUSGRAV_NO_WASM === '1';
-}
-
 let cachedModule: WebAssembly.Module | null | undefined;
 
 /** The compiled parser module, or null when WebAssembly (with SIMD) cannot be used here. */
 export function textParseModule(): WebAssembly.Module | null {
-  if (disabled()) return null;
+  if (wasmDisabled()) return null;
   if (cachedModule !== undefined) return cachedModule;
   try {
     const bytes = base64Bytes(TEXT_PARSE_WASM_BASE64);
@@ -216,7 +212,7 @@ class Rows implements TextRowsWasm {
  * subsampling `every`; null when WebAssembly is off or the layout does not fit (then use JavaScript).
  */
 export function textRowsWasmMake(slotOf: Int32Array, delim: number, every: number): TextRowsWasm | null {
-  if (disabled() || slotOf.length === 0 || slotOf.length > MAX_COLUMNS || !(every >= 1 && every <= 0x3fffffff)) return null;
+  if (wasmDisabled() || slotOf.length === 0 || slotOf.length > MAX_COLUMNS || !(every >= 1 && every <= 0x3fffffff)) return null;
   const s = sharedInstance();
   if (!s) return null;
   return new Rows(s, slotOf, delim, every);
