@@ -3,9 +3,8 @@
  * unavailable or disabled (globalThis.TORUSGRAV_NO_WASM = true, or env TORUSGRAV_NO_WASM=1 in Node), and
  * callers then use the JavaScript twins of the kernels.
  */
-import { base64Bytes } from '../util/base64';
 import { KERNELS_WASM_BASE64 } from './kernelsBinary';
-import { wasmDisabled } from './disabled';
+import { wasmCompile, wasmDisabled } from './compile';
 
 export interface KernelExports {
   memory: WebAssembly.Memory;
@@ -18,13 +17,7 @@ let cached: WebAssembly.Module | null | undefined;
 /** The compiled kernel module, or null when WebAssembly SIMD cannot be used here. */
 export function kernelModule(): WebAssembly.Module | null {
   if (wasmDisabled()) return null;
-  if (cached !== undefined) return cached;
-  try {
-    const bytes = base64Bytes(KERNELS_WASM_BASE64);
-    cached = WebAssembly.validate(bytes) ? new WebAssembly.Module(bytes) : null;
-  } catch {
-    cached = null;
-  }
+  if (cached === undefined) cached = wasmCompile(KERNELS_WASM_BASE64);
   return cached;
 }
 

@@ -5,9 +5,8 @@
  * has its own). Returns null where WebAssembly is unavailable or disabled (globalThis.TORUSGRAV_NO_WASM =
  * true, or env TORUSGRAV_NO_WASM=1 in Node); callers then use toPrecision.
  */
-import { base64Bytes } from '../util/base64';
 import { TEXT_FORMAT_WASM_BASE64 } from './textFormatBinary';
-import { wasmDisabled } from './disabled';
+import { wasmCompile, wasmDisabled } from './compile';
 
 export interface TextFormatExports {
   memory: WebAssembly.Memory;
@@ -41,10 +40,9 @@ let instance: TextFormatExports | null | undefined;
 export function textFormatInstance(): TextFormatExports | null {
   if (wasmDisabled()) return null;
   if (instance !== undefined) return instance;
+  const mod = wasmCompile(TEXT_FORMAT_WASM_BASE64);
+  if (!mod) return (instance = null);
   try {
-    const g = globalThis as { WebAssembly?: typeof WebAssembly };
-    if (!g.WebAssembly) return (instance = null);
-    const mod = new WebAssembly.Module(base64Bytes(TEXT_FORMAT_WASM_BASE64));
     const inst = new WebAssembly.Instance(mod, {
       env: {
         abort: () => {

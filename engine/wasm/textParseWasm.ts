@@ -10,9 +10,8 @@
  * OUT_ROWS rows at a time. Null where WebAssembly (with SIMD) is unavailable or
  * disabled (globalThis.TORUSGRAV_NO_WASM = true, or env TORUSGRAV_NO_WASM=1 in Node).
  */
-import { base64Bytes } from '../util/base64';
 import { TEXT_PARSE_WASM_BASE64 } from './textParseBinary';
-import { wasmDisabled } from './disabled';
+import { wasmCompile, wasmDisabled } from './compile';
 
 interface TextParseExports {
   memory: WebAssembly.Memory;
@@ -51,13 +50,7 @@ let cachedModule: WebAssembly.Module | null | undefined;
 /** The compiled parser module, or null when WebAssembly (with SIMD) cannot be used here. */
 export function textParseModule(): WebAssembly.Module | null {
   if (wasmDisabled()) return null;
-  if (cachedModule !== undefined) return cachedModule;
-  try {
-    const bytes = base64Bytes(TEXT_PARSE_WASM_BASE64);
-    cachedModule = WebAssembly.validate(bytes) ? new WebAssembly.Module(bytes) : null;
-  } catch {
-    cachedModule = null;
-  }
+  if (cachedModule === undefined) cachedModule = wasmCompile(TEXT_PARSE_WASM_BASE64);
   return cachedModule;
 }
 
