@@ -303,7 +303,8 @@ export function ewaldFinalize(
   const masses = setup.masses;
   for (let t = 0; t < targets.length; t++) {
     let ax = acc[3 * t], ay = acc[3 * t + 1], az = acc[3 * t + 2], p = phi[t];
-    for (const q of parts) {
+    for (let k = 0; k < parts.length; k++) {
+      const q = parts[k];
       ax += q.acc[3 * t];
       ay += q.acc[3 * t + 1];
       az += q.acc[3 * t + 2];
