@@ -23,6 +23,8 @@ import {
   ewaldWeakFind,
   ewaldWeakReplace,
   ewaldSetupBuild,
+  ewaldSetupRefine,
+  ewaldTargetsRun,
   ewaldTargetsValidate,
   ewaldUnsort,
 } from '../../engine/ewald/ewald';
@@ -38,6 +40,9 @@ import { PhaseClock, phaseLines, phaseTotals, threadTimes, timingEnabled } from 
 export function defaultThreads(): number {
   return Math.max(1, availableParallelism());
 }
+
+/** Weak-field refinements of at most this many targets run on this thread alone (no round trip to the workers). */
+const REFINE_HERE_MAX = 64;
 
 /** Runs below this many particles stay on one thread. */
 const THREADED_MIN_PARTICLES = 2048;
@@ -303,9 +308,12 @@ export async function ewaldForcesThreads(
     const { setup, acc, phi } = run;
     ewaldFinalize(setup, tg, acc, phi, run.realParts);
     clock.mark('finalize');
-    // Weak-field refinement (the engine's rule, ewaldRefineWeak), on all threads as well.
+    // Weak-field refinement (the engine's rule, ewaldRefineWeak): a few targets (the usual case) here on
+    // the run's own particles and cell list; many on all threads.
     const weak = ewaldWeakFind(tg, acc, setup.params, options);
-    if (weak) {
+    if (weak && weak.rows.length <= REFINE_HERE_MAX) {
+      ewaldWeakReplace(weak, ewaldTargetsRun(ewaldSetupRefine(setup, { ...options, tol: weak.tol }, weak.rows.length), weak.rows), acc, phi);
+    } else if (weak) {
       const r = await threadedRun(pool, threads, positions, masses, box, weak.rows, false, { ...options, tol: weak.tol }, { clustering: setup.params.clustering });
       ewaldFinalize(r.setup, weak.rows, r.acc, r.phi, r.realParts);
       ewaldWeakReplace(weak, r, acc, phi);

@@ -3,7 +3,7 @@
  * file (read at offsets, so nothing holds the whole file), h5wasm/node for HDF5 (opens the path on the
  * host file system), one-line errors.
  */
-import { open, stat } from 'node:fs/promises';
+import { closeSync, fstatSync, openSync, readSync, statSync } from 'node:fs';
 import { resolve } from 'node:path';
 import type { ByteSource } from '../../engine/formats/byteSource';
 import type { LoadOptions } from '../../engine/formats/description';
@@ -22,18 +22,21 @@ function readError(path: string, e: unknown): CliError {
   return new CliError(`cannot read ${path}: ${READ_ERRORS[code] ?? (e instanceof Error ? e.message : String(e))}`, 2);
 }
 
-/** Opens a file as a ByteSource; CliError (exit 2) naming the file when it cannot be read. */
+/**
+ * Opens a file as a ByteSource; CliError (exit 2) naming the file when it cannot be read. The reads are
+ * synchronous on purpose: the thread has nothing else to do meanwhile, and each asynchronous call is a
+ * round trip through libuv's thread pool, which costs milliseconds while worker threads start.
+ */
 export async function fileSourceOpen(path: string): Promise<{ source: ByteSource; close: () => Promise<void> }> {
-  let handle;
+  let fd: number;
+  let size: number;
   try {
-    const st = await stat(path);
-    if (st.isDirectory()) throw Object.assign(new Error('folder'), { code: 'EISDIR' });
-    handle = await open(path, 'r');
+    if (statSync(path).isDirectory()) throw Object.assign(new Error('folder'), { code: 'EISDIR' });
+    fd = openSync(path, 'r');
+    size = fstatSync(fd).size;
   } catch (e) {
     throw readError(path, e);
   }
-  const size = (await handle.stat()).size;
-  const fh = handle;
   const source: ByteSource = {
     size,
     path: resolve(path),
@@ -43,7 +46,7 @@ export async function fileSourceOpen(path: string): Promise<{ source: ByteSource
       let got = 0;
       try {
         while (got < n) {
-          const { bytesRead } = await fh.read(buf, got, n - got, offset + got);
+          const bytesRead = readSync(fd, buf, got, n - got, offset + got);
           if (bytesRead === 0) break;
           got += bytesRead;
         }
@@ -53,7 +56,7 @@ export async function fileSourceOpen(path: string): Promise<{ source: ByteSource
       return new Uint8Array(buf.buffer, buf.byteOffset, got);
     },
   };
-  return { source, close: () => fh.close() };
+  return { source, close: async () => closeSync(fd) };
 }
 
 /** h5wasm for Node: opens paths on the host file system (loaded on first use). */

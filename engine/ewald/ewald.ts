@@ -10,7 +10,7 @@
 import { float64s } from '../util/arrays';
 import { targetsAll, targetsAreAll } from '../targets';
 import { type Box, boxMake, boxVolume, positionsWrap } from '../box';
-import { type CellList, cellListBuild, cellListCoordinates, cellListNeighbour } from './cellList';
+import { type CellList, cellListBuild, cellListCoordinates, cellListNeighbour, cellStencil } from './cellList';
 import { type KernelTable, kernelTableBuild } from './kernelTable';
 import { type KSpace, kSpaceBuild, kSpaceStructureFactor, kSpaceTargets, kSpaceWeigh } from './kSpace';
 import { type EwaldOptions, type EwaldParams, ewaldParamsChoose } from './params';
@@ -182,6 +182,34 @@ export function ewaldSetupBuild(chosen: EwaldChosen, options: EwaldOptions = {},
     params: { ...p, stencilCells: cells.stencil.length / 3 },
     cells,
     kernel: { alpha: p.alpha, rCut: p.rCut, rSoft: p.rSoft, softening: p.softening, table },
+  };
+}
+
+/**
+ * A setup for `targetCount` targets of the same particles as `base` under other options (the weak-field
+ * refinement's tighter tolerance): new α, r_c, k_c, k-vectors and kernel table, but `base`'s validated,
+ * wrapped positions and sorted particles; the cell grid stays and only its stencil is remade for the new
+ * cutoff (the stencil is valid for any cutoff). No pass over the particles but the parameter choice's
+ * sums over the masses.
+ */
+export function ewaldSetupRefine(base: EwaldSetup, options: EwaldOptions, targetCount: number): EwaldSetup {
+  const chosen = ewaldParamsChoose(base.positions, base.masses, base.box, options, targetCount, base.params.clustering);
+  const kspace = kSpaceBuild(base.box, chosen.alpha, chosen.kCut);
+  const rLoop = Math.max(chosen.rCut, chosen.rSoft);
+  const { offsets, halfCount } = cellStencil(base.cells.w, rLoop);
+  const cells: CellList = { ...base.cells, stencil: offsets, halfCount };
+  const params: EwaldParams = { ...chosen, hMax: kspace.hMax, kVectors: kspace.count, cells: base.params.cells, stencilCells: offsets.length / 3 };
+  const table = kernelTableBuild(params.alpha * params.alpha * params.rCut * params.rCut);
+  return {
+    box: base.box,
+    positions: base.positions,
+    masses: base.masses,
+    wrapped: base.wrapped,
+    params,
+    kspace,
+    totalMass: base.totalMass,
+    cells,
+    kernel: { alpha: params.alpha, rCut: params.rCut, rSoft: params.rSoft, softening: params.softening, table },
   };
 }
 
@@ -393,7 +421,7 @@ export function ewaldForces(
     }
   }
   ewaldFinalize(setup, tg, acc, phi);
-  const refined = refine ? ewaldRefineWeak(positions, masses, box, tg, acc, phi, setup.params, options) : 0;
+  const refined = refine ? ewaldRefineWeak(setup, tg, acc, phi, options) : 0;
   return { targets: tg, acc, phi, params: setup.params, wrapped: setup.wrapped, refined };
 }
 
@@ -439,24 +467,28 @@ export function ewaldWeakReplace(weak: EwaldWeak, refined: { acc: Float64Array; 
 
 /**
  * A posteriori refinement (ewaldWeakFind): the weak-field targets are recomputed (per-target mode) at
- * their tighter tolerance and replaced in acc/phi, so their relative error also stays below tol.
- * Returns the number of particles refined.
+ * their tighter tolerance on `setup`'s particles (ewaldSetupRefine) and replaced in acc/phi, so their
+ * relative error also stays below tol. Returns the number of particles refined.
  */
-export function ewaldRefineWeak(
-  positions: Float64Array,
-  masses: Float64Array,
-  box: Box,
-  targets: Int32Array,
-  acc: Float64Array,
-  phi: Float64Array,
-  params: EwaldParams,
-  options: EwaldOptions,
-): number {
-  const weak = ewaldWeakFind(targets, acc, params, options);
+export function ewaldRefineWeak(setup: EwaldSetup, targets: Int32Array, acc: Float64Array, phi: Float64Array, options: EwaldOptions): number {
+  const weak = ewaldWeakFind(targets, acc, setup.params, options);
   if (!weak) return 0;
-  const r = ewaldForces(positions, masses, box, weak.rows, { ...options, tol: weak.tol }, undefined, false, { clustering: params.clustering });
+  const r = ewaldTargetsRun(ewaldSetupRefine(setup, { ...options, tol: weak.tol }, weak.rows.length), weak.rows);
   ewaldWeakReplace(weak, r, acc, phi);
   return weak.rows.length;
+}
+
+/**
+ * Accelerations and potentials (finalized) for a few targets (input rows) of a setup, on this thread in
+ * one go: the structure factor over all sources, then the targets' real-space and Fourier sums.
+ */
+export function ewaldTargetsRun(setup: EwaldSetup, targets: Int32Array): { acc: Float64Array; phi: Float64Array } {
+  const weighted = ewaldWeighStructureFactor(setup, ewaldStructureFactor(setup));
+  const acc = new Float64Array(3 * targets.length);
+  const phi = new Float64Array(targets.length);
+  ewaldTargetsChunk(setup, weighted, targets, 0, targets.length, acc, phi);
+  ewaldFinalize(setup, targets, acc, phi);
+  return { acc, phi };
 }
 
 /**
