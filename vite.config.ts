@@ -21,6 +21,7 @@ export default defineConfig({
     root: '.',
     include: ['tests/**/*.test.ts', 'tests/**/*.test.tsx'],
     environment: 'node',
+    setupFiles: ['tests/setup/relaxedSimd.ts'],
     testTimeout: 120_000,
     pool: 'forks',
   },

@@ -24,7 +24,8 @@ import type { CliIo } from './cliIo';
 import { engineErrorExplain, outsideWarning, targetIds } from './engineErrors';
 import { mappingFromOptions, sizeParse } from './mappingOptions';
 import { BOX_OPTION, boxParse, integerParse, positiveParse, softeningParse, targetSpecParse, tolParse } from './optionValues';
-import { defaultThreads, ewaldForcesThreads } from './parallelEwald';
+import { ewaldForcesThreads } from './parallelEwald';
+import { defaultThreads } from './workerWarm';
 import { progressLine } from './progress';
 import { particlePlace, snapshotFileRead } from './snapshotFile';
 

@@ -12,7 +12,7 @@ import { UsageError } from './cliErrors';
 import { mappingFromOptions, sizeParse } from './mappingOptions';
 import { boxParse, integerParse, positiveParse, softeningParse, targetsCountParse, tolParse } from './optionValues';
 import { ORDER_OPTIONS, ORDER_OPTION_NAMES, type OrderSettings, orderSettings } from './orderOptions';
-import { defaultThreads } from './parallelEwald';
+import { defaultThreads } from './workerWarm';
 import { PME_OPTIONS, PME_OPTION_NAMES, PME_TOL_DEFAULT, type PmeOverrides, pmeOverridesParse } from './pmeOptions';
 
 export const FORCES_COMMAND = 'forces';

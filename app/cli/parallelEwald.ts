@@ -7,7 +7,6 @@
  *   shared counters (ewaldUnits.ts) → each thread unsorts its real-space sums → finalize (adding them) and
  *   the weak-field refinement (a second threaded run on the same workers) here.
  */
-import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
 import { type Box } from '../../engine/box';
 import {
@@ -30,16 +29,11 @@ import {
 } from '../../engine/ewald/ewald';
 import { targetsAll, targetsAreAll } from '../../engine/targets';
 import type { EwaldOptions } from '../../engine/ewald/params';
-import { kernelModule } from '../../engine/wasm/module';
 import { CTL_STOP, type RunCursor, runUnits, structureUnitsRun, unitsPlan, unitsShared, weightedWaitSlot } from './ewaldUnits';
 import type { WorkerReply, WorkerRequest } from './parallelProtocol';
 import { sharedArray } from '../common/sharedMemory';
-import { PhaseClock, phaseLines, phaseTotals, threadTimes, timingEnabled } from './phaseTiming';
-
-/** Default thread count: all cores. */
-export function defaultThreads(): number {
-  return Math.max(1, availableParallelism());
-}
+import { PhaseClock, phaseLines, phaseTotals } from './phaseTiming';
+import { WORKER_URL, defaultThreads, warmClockTake, warmTake, workerStart } from './workerWarm';
 
 /** Weak-field refinements of at most this many targets run on this thread alone (no round trip to the workers). */
 const REFINE_HERE_MAX = 64;
@@ -77,62 +71,6 @@ function buildShared(s: EwaldSetup): Pick<EwaldSetup, 'params' | 'cells' | 'kern
     cells: { ...cells, xyzm: sharedArray(cells.xyzm), order: sharedArray(cells.order), slot: sharedArray(cells.slot), start: sharedArray(cells.start), stencil: sharedArray(cells.stencil) },
     kernel: { ...kernel, table: { ...kernel.table, coef: sharedArray(kernel.table.coef) } },
   };
-}
-
-const WORKER_URL = new URL('./forceWorker.mjs', import.meta.url);
-/** Workers started ahead. */
-interface WarmPool {
-  url: string;
-  workers: Worker[];
-  broken: boolean;
-}
-let warm: WarmPool | null = null;
-let warmClock: PhaseClock | null = null;
-
-/**
- * Starts the threads − 1 workers of a coming ewaldForcesThreads call now (e.g. before the snapshot is read),
- * so that their start-up overlaps the reading. Unused workers do not keep the process alive; a later
- * call with another count or URL, or a run that stays on one thread, terminates them.
- */
-export function ewaldThreadsWarm(threads: number, workerUrl: URL = WORKER_URL): void {
-  if (timingEnabled()) {
-    const [cpu, wait] = threadTimes();
-    process.stderr.write(phaseLines('main', [{ name: 'process-start→warm', wall: performance.now(), cpu, wait }]));
-    warmClock = new PhaseClock();
-    process.once('exit', () => {
-      const [c, w] = threadTimes();
-      process.stderr.write(phaseLines('main', [{ name: 'process total', wall: performance.now(), cpu: c, wait: w }]));
-    });
-  }
-  if (threads <= 1 || warm) return;
-  const workers = Array.from({ length: threads - 1 }, () => workerStart(workerUrl));
-  const record: WarmPool = { url: workerUrl.href, workers, broken: false };
-  for (const w of workers) {
-    // A worker that fails or stops before it is used is replaced by a fresh one when the pool is made.
-    w.on('error', () => (record.broken = true));
-    w.on('exit', () => (record.broken = true));
-    w.unref();
-  }
-  warm = record;
-}
-
-/**
- * A worker sharing this thread's compiled WebAssembly kernels: one compilation, and code that one thread
- * has optimised is optimised for all (this thread's weak-field refinement runs warm code).
- */
-function workerStart(url: URL): Worker {
-  return new Worker(url, { workerData: { kernelModule: kernelModule() } });
-}
-
-function warmTake(count: number, url: URL): Worker[] {
-  const w = warm;
-  warm = null;
-  if (!w) return [];
-  if (w.url !== url.href || w.workers.length !== count || w.broken) {
-    for (const x of w.workers) void x.terminate();
-    return [];
-  }
-  return w.workers;
 }
 
 /** Workers with a FIFO of pending replies each (a worker answers its messages in order). */
@@ -298,8 +236,7 @@ export async function ewaldForcesThreads(
   const tg = targets ?? targetsAll(n);
   if (targets) ewaldTargetsValidate(tg, n);
   const all = !targets || targetsAreAll(tg, n);
-  const clock = warmClock ?? new PhaseClock();
-  warmClock = null;
+  const clock = warmClockTake();
   clock.mark('warm→threads (read, validate)');
   // This thread computes too: threads − 1 workers.
   const pool = new Pool(threads - 1, workerUrl);

@@ -12,6 +12,16 @@ export function wasmDisabled(): boolean {
 }
 
 /**
+ * Whether the kernels' relaxed-SIMD build (fused multiply-add) is switched off, so that the plain SIMD
+ * build runs even where relaxed SIMD validates: globalThis.TORUSGRAV_NO_RELAXED_SIMD = true, or env
+ * TORUSGRAV_NO_RELAXED_SIMD=1 in Node (tests run every kernel path this way).
+ */
+export function wasmRelaxedDisabled(): boolean {
+  const g = globalThis as { TORUSGRAV_NO_RELAXED_SIMD?: boolean; process?: { env?: Record<string, string | undefined> } };
+  return g.TORUSGRAV_NO_RELAXED_SIMD === true || g.process?.env?.TORUSGRAV_NO_RELAXED_SIMD === '1';
+}
+
+/**
  * The module whose binary is `base64`, compiled synchronously; null when switched off, when there is no
  * WebAssembly, or when this engine refuses it (e.g. no SIMD). Callers cache it per thread.
  */

@@ -13,6 +13,10 @@ import { boxMake, type Box } from '../../engine/box';
 import { demoSnapshot } from '../../engine/demo/demoSnapshot';
 import { ewaldForces, ewaldPairCount, ewaldSetup } from '../../engine/ewald/ewald';
 import { randomSeeded } from '../../engine/util/random';
+import { relaxedSimdEnable } from '../../app/cli/wasmFeatures';
+import { kernelVariant } from '../../engine/wasm/module';
+
+relaxedSimdEnable(); // the kernels' relaxed-SIMD build, as the command line runs them
 
 const workerUrl = new URL(process.env.TORUSGRAV_WORKER_URL!);
 const quick = process.argv.includes('--quick');
@@ -22,8 +26,9 @@ function uniform(n: number, seed: number): Float64Array {
   return Float64Array.from({ length: 3 * n }, () => r());
 }
 
+/** One JSON line; every figure names the build of the engine's kernels it ran on (in this process). */
 function emit(o: Record<string, unknown>): void {
-  process.stdout.write(JSON.stringify(o) + '\n');
+  process.stdout.write(JSON.stringify({ ...o, kernels: kernelVariant() ?? 'javascript' }) + '\n');
 }
 
 async function timeBest<T>(reps: number, f: () => Promise<T> | T): Promise<{ seconds: number; value: T }> {

@@ -12,6 +12,9 @@ import { ewaldForces } from '../../engine/ewald/ewald';
 import { type ImageSumOptions, imageSumFinalize, imageSumPartialAlloc, imageSumSetup, imageSumTargetsChunk } from '../../engine/orders/index';
 import { targetsResolve } from '../../engine/targets';
 import { randomSeeded } from '../../engine/util/random';
+import { relaxedSimdEnable } from '../../app/cli/wasmFeatures';
+
+relaxedSimdEnable(); // the kernels' relaxed-SIMD build, as the command line runs them
 
 const quick = process.argv.includes('--quick');
 

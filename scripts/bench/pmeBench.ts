@@ -22,13 +22,18 @@ import { ewaldForces } from '../../engine/ewald/ewald';
 import { targetsResolve } from '../../engine/targets';
 import { randomSeeded } from '../../engine/util/random';
 import { pmeForcesThreads } from '../../app/cli/parallelPme';
+import { relaxedSimdEnable } from '../../app/cli/wasmFeatures';
+import { kernelVariant } from '../../engine/wasm/module';
+
+relaxedSimdEnable(); // the kernels' relaxed-SIMD build, as the command line runs them
 
 const SEED = 20240611;
 const TARGETS = 1000;
 const REF_TOL = 1e-10;
 
+/** One JSON line; every figure names the build of the engine's kernels it ran on (in this process). */
 function emit(o: Record<string, unknown>): void {
-  process.stdout.write(JSON.stringify(o) + '\n');
+  process.stdout.write(JSON.stringify({ ...o, kernels: kernelVariant() ?? 'javascript' }) + '\n');
 }
 
 function snapshot(n: number, kind: string): { positions: Float64Array; masses: Float64Array } {

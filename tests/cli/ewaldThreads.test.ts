@@ -8,7 +8,8 @@
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { ewaldForcesThreads, ewaldThreadsWarm } from '../../app/cli/parallelEwald';
+import { ewaldForcesThreads } from '../../app/cli/parallelEwald';
+import { ewaldThreadsWarm } from '../../app/cli/workerWarm';
 import { ewaldForces } from '../../engine/ewald/ewald';
 import { boxMake, randomSeeded } from '../../engine/index';
 import { snapshotClustered, snapshotUniform } from '../helpers/snapshots';

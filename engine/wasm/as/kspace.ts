@@ -1,6 +1,7 @@
 // AssemblyScript source of the Fourier-space Ewald kernels (compiled to WebAssembly with SIMD by
 // scripts/build-wasm.mjs; the JavaScript twin and the definitions are in engine/ewald/kSpace.ts).
 // All arrays live in linear memory; pointers are byte offsets; f64 arrays, i32 column tables.
+import { madd, nmadd } from './fma';
 
 // Phase table: re/im of e^{i h θ}, h = 0..H, written at re[off + sign·h], by complex recurrence with an
 // exact reset every 32 steps.
@@ -82,10 +83,13 @@ export function structureFactor(
         const zo = <usize>hz << 3, ko = <usize>k << 3;
         const zr0 = v128.load(ezr + zo), zi0 = v128.load(ezi + zo);
         const zr1 = v128.load(ezr + second + zo), zi1 = v128.load(ezi + second + zo);
-        const re = f64x2.add(f64x2.sub(f64x2.mul(crv0, zr0), f64x2.mul(civ0, zi0)), f64x2.sub(f64x2.mul(crv1, zr1), f64x2.mul(civ1, zi1)));
-        const im = f64x2.add(f64x2.add(f64x2.mul(crv0, zi0), f64x2.mul(civ0, zr0)), f64x2.add(f64x2.mul(crv1, zi1), f64x2.mul(civ1, zr1)));
-        v128.store(sr + ko, f64x2.add(v128.load(sr + ko), re));
-        v128.store(si + ko, f64x2.add(v128.load(si + ko), im));
+        // Two independent chains per part (particle 0 onto S, particle 1 apart), joined by one add.
+        const re0 = nmadd(civ0, zi0, madd(crv0, zr0, v128.load(sr + ko)));
+        const re1 = nmadd(civ1, zi1, f64x2.mul(crv1, zr1));
+        const im0 = madd(civ0, zr0, madd(crv0, zi0, v128.load(si + ko)));
+        const im1 = madd(civ1, zr1, f64x2.mul(crv1, zi1));
+        v128.store(sr + ko, f64x2.add(re0, re1));
+        v128.store(si + ko, f64x2.add(im0, im1));
       }
       if (hz == z1) {
         const zo = <usize>hz << 3, ko = <usize>k << 3;
@@ -114,8 +118,8 @@ export function structureFactor(
       for (; hz < z1; hz += 2, k += 2) {
         const zo = <usize>hz << 3, ko = <usize>k << 3;
         const zr = v128.load(ezr + zo), zi = v128.load(ezi + zo);
-        v128.store(sr + ko, f64x2.add(v128.load(sr + ko), f64x2.sub(f64x2.mul(crv, zr), f64x2.mul(civ, zi))));
-        v128.store(si + ko, f64x2.add(v128.load(si + ko), f64x2.add(f64x2.mul(crv, zi), f64x2.mul(civ, zr))));
+        v128.store(sr + ko, nmadd(civ, zi, madd(crv, zr, v128.load(sr + ko))));
+        v128.store(si + ko, madd(civ, zr, madd(crv, zi, v128.load(si + ko))));
       }
       if (hz == z1) {
         const zo = <usize>hz << 3, ko = <usize>k << 3;
@@ -165,12 +169,12 @@ export function fourierTargets(
         const zo = <usize>hz << 3, ko = <usize>k << 3;
         const zr = v128.load(ezr + zo), zi = v128.load(ezi + zo);
         const sr = v128.load(wr + ko), si = v128.load(wi + ko);
-        const w_r = f64x2.add(f64x2.mul(zr, sr), f64x2.mul(zi, si));
-        const w_i = f64x2.sub(f64x2.mul(zi, sr), f64x2.mul(zr, si));
+        const w_r = madd(zi, si, f64x2.mul(zr, sr));
+        const w_i = nmadd(zr, si, f64x2.mul(zi, sr));
         a0r = f64x2.add(a0r, w_r);
         a0i = f64x2.add(a0i, w_i);
-        a1r = f64x2.add(a1r, f64x2.mul(hzv, w_r));
-        a1i = f64x2.add(a1i, f64x2.mul(hzv, w_i));
+        a1r = madd(hzv, w_r, a1r);
+        a1i = madd(hzv, w_i, a1i);
         hzv = f64x2.add(hzv, two);
       }
       let s0r = f64x2.extract_lane(a0r, 0) + f64x2.extract_lane(a0r, 1);

@@ -4,6 +4,8 @@
 // power (P0, Q0, P1, Q1, …, P5, Q5) so that one 128-bit load serves both functions.
 // Pair terms: F = f_short − α³P(u), Ψ = ψ_short − αQ(u) for r < rCut, f_short − 1/r³ beyond (softening only).
 
+import { madd, nmadd } from './fma';
+
 // Kernel parameters, set once per context by setKernel.
 let gAlpha: f64 = 0;
 let gAlpha3: f64 = 0;
@@ -37,10 +39,10 @@ export function setKernel(alpha: f64, rCut: f64, rSoft: f64, perUnit: f64, uMax:
 @inline function hornerPQ(o: usize, t: f64): v128 {
   const tv = f64x2.splat(t);
   const t2 = f64x2.mul(tv, tv);
-  const a = f64x2.add(v128.load(o), f64x2.mul(tv, v128.load(o, 16)));
-  const b = f64x2.add(v128.load(o, 32), f64x2.mul(tv, v128.load(o, 48)));
-  const c = f64x2.add(v128.load(o, 64), f64x2.mul(tv, v128.load(o, 80)));
-  return f64x2.add(a, f64x2.mul(t2, f64x2.add(b, f64x2.mul(t2, c))));
+  const a = madd(tv, v128.load(o, 16), v128.load(o));
+  const b = madd(tv, v128.load(o, 48), v128.load(o, 32));
+  const c = madd(tv, v128.load(o, 80), v128.load(o, 64));
+  return madd(t2, madd(t2, c, b), a);
 }
 
 // Generic scalar pair (any r2 < gRl2, r2 > 0 or softened): sets gF, gP.
@@ -115,7 +117,7 @@ let vPp: v128 = f64x2.splat(0);
     const dx = f64x2.sub(pxv, v128.load(xs + jo));
     const dy = f64x2.sub(pyv, v128.load(ys + jo));
     const dz = f64x2.sub(pzv, v128.load(zs + jo));
-    const r2 = f64x2.add(f64x2.add(f64x2.mul(dx, dx), f64x2.mul(dy, dy)), f64x2.mul(dz, dz));
+    const r2 = madd(dz, dz, madd(dy, dy, f64x2.mul(dx, dx)));
     const inside = f64x2.lt(r2, rl2v);
     if (!v128.any_true(inside)) continue;
     // Lanes that need the scalar path: softened, beyond rCut (softening only), or the skipped self term.
@@ -159,19 +161,19 @@ let vPp: v128 = f64x2.splat(0);
     const pq1 = hornerPQ(table + <usize>i32x4.extract_lane(bits, 2) * 96, f64x2.extract_lane(t, 1));
     const P = f64x2.shuffle(pq0, pq1, 0, 2);
     const Q = f64x2.shuffle(pq0, pq1, 1, 3);
-    const F = v128.and(f64x2.sub(f64x2.mul(f64x2.mul(ir, ir), ir), f64x2.mul(a3v, P)), inside);
-    const Pot = v128.and(f64x2.sub(ir, f64x2.mul(a1v, Q)), inside);
+    const F = v128.and(nmadd(a3v, P, f64x2.mul(f64x2.mul(ir, ir), ir)), inside);
+    const Pot = v128.and(nmadd(a1v, Q, ir), inside);
     const mj = v128.load(ms + jo);
     const fx = f64x2.mul(F, dx), fy = f64x2.mul(F, dy), fz = f64x2.mul(F, dz);
-    sAx = f64x2.sub(sAx, f64x2.mul(mj, fx));
-    sAy = f64x2.sub(sAy, f64x2.mul(mj, fy));
-    sAz = f64x2.sub(sAz, f64x2.mul(mj, fz));
-    sPp = f64x2.add(sPp, f64x2.mul(mj, Pot));
+    sAx = nmadd(mj, fx, sAx);
+    sAy = nmadd(mj, fy, sAy);
+    sAz = nmadd(mj, fz, sAz);
+    sPp = madd(mj, Pot, sPp);
     if (symmetric) {
-      v128.store(ax + jo, f64x2.add(v128.load(ax + jo), f64x2.mul(miv, fx)));
-      v128.store(ay + jo, f64x2.add(v128.load(ay + jo), f64x2.mul(miv, fy)));
-      v128.store(az + jo, f64x2.add(v128.load(az + jo), f64x2.mul(miv, fz)));
-      v128.store(ph + jo, f64x2.add(v128.load(ph + jo), f64x2.mul(miv, Pot)));
+      v128.store(ax + jo, madd(miv, fx, v128.load(ax + jo)));
+      v128.store(ay + jo, madd(miv, fy, v128.load(ay + jo)));
+      v128.store(az + jo, madd(miv, fz, v128.load(az + jo)));
+      v128.store(ph + jo, madd(miv, Pot, v128.load(ph + jo)));
     }
   }
   if (j < j1 && !(checkSkip && j == skip)) {
