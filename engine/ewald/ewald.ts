@@ -13,10 +13,11 @@ import { type Box, boxMake, boxVolume, positionsWrap } from '../box';
 import { type CellList, cellListBuild, cellListCoordinates, cellListNeighbour, cellStencil } from './cellList';
 import { type KernelTable, kernelTableBuild } from './kernelTable';
 import { type KSpace, kSpaceBuild, kSpaceStructureFactor, kSpaceTargets, kSpaceWeigh } from './kSpace';
-import { type EwaldOptions, type EwaldParams, ewaldParamsChoose } from './params';
+import { type EwaldOptions, type EwaldParams, clusteringFromSumSq, clusteringGrid, ewaldParamsChoose } from './params';
 import { type RealSpaceKernel, realSpaceAllSorted, realSpaceTargets } from './realSpace';
 import { type KSpaceWasm, kSpaceWasmCreate } from '../wasm/kSpaceWasm';
 import { type RealSpaceWasm, realSpaceWasmCreate } from '../wasm/realSpaceWasm';
+import { type PrepareWasm, prepareWasmCreate } from '../wasm/prepareWasm';
 
 /** What the Fourier part needs: the first half of a setup (ewaldChoose), before the cell list exists. */
 export interface EwaldChosen {
@@ -31,6 +32,8 @@ export interface EwaldChosen {
   readonly totalMass: number;
   /** WebAssembly context of the Fourier kernels (created on first use; null where unavailable). */
   kWasm?: KSpaceWasm | null;
+  /** WebAssembly context that prepared the particles (holds the wrapped copy for the cell list), if any. */
+  prep?: PrepareWasm | null;
 }
 
 export interface EwaldSetup extends EwaldChosen {
@@ -144,9 +147,22 @@ export function ewaldChoose(
   checked?: EwaldChecked,
 ): EwaldChosen {
   boxMake(box.lx, box.ly, box.lz); // throws a RangeError naming a side that is not > 0
-  if (!checked) particlesValidate(positions, masses);
   const shared = options.sharedMemory === true;
   const wrappedPositions = float64s(positions.length, shared);
+  // WebAssembly: validation, wrapping, clustering counts and mass sums in one pass (same bits as below).
+  const prep = positions.length === 3 * masses.length ? prepareWasmCreate() : null;
+  if (prep) {
+    const grid = clusteringGrid(masses.length, box);
+    const r = prep.particles(positions, masses, box, grid, wrappedPositions);
+    if (!r) particlesValidate(positions, masses); // throws, naming the particle
+    const { moved, clusterSumSq, q, m32, mAbs, total } = r!;
+    const clustering = checked?.clustering ?? clusteringFromSumSq(clusterSumSq, grid[0] * grid[1] * grid[2], masses.length);
+    const chosen = ewaldParamsChoose(wrappedPositions, masses, box, options, targetCount, clustering, { q, m32, mAbs });
+    const kspace = kSpaceBuild(box, chosen.alpha, chosen.kCut);
+    const params: EwaldParams = { ...chosen, hMax: kspace.hMax, kVectors: kspace.count };
+    return { box, positions: wrappedPositions, masses, wrapped: moved, params, kspace, totalMass: total, prep };
+  }
+  if (!checked) particlesValidate(positions, masses);
   wrappedPositions.set(positions);
   const wrapped = positionsWrap(wrappedPositions, box);
   const chosen = ewaldParamsChoose(wrappedPositions, masses, box, options, targetCount, checked?.clustering);
@@ -164,7 +180,8 @@ export function ewaldChoose(
 export function ewaldSetupBuild(chosen: EwaldChosen, options: EwaldOptions = {}, checked?: EwaldChecked): EwaldSetup {
   const p = chosen.params;
   const rLoop = Math.max(p.rCut, p.rSoft);
-  const cells = cellListBuild(chosen.positions, chosen.masses, chosen.box, p.cells, rLoop, options.sharedMemory === true);
+  const shared = options.sharedMemory === true;
+  const cells = chosen.prep ? chosen.prep.cellList(chosen.box, p.cells, rLoop, shared) : cellListBuild(chosen.positions, chosen.masses, chosen.box, p.cells, rLoop, shared);
   if (p.softening.kind === 'none' && !checked) {
     const pair = cellListFindCoincident(cells);
     if (pair) {
@@ -179,6 +196,7 @@ export function ewaldSetupBuild(chosen: EwaldChosen, options: EwaldOptions = {},
   const table: KernelTable = kernelTableBuild(uMax);
   return {
     ...chosen,
+    prep: null, // its memory (a copy of the particles) is not needed any more
     params: { ...p, stencilCells: cells.stencil.length / 3 },
     cells,
     kernel: { alpha: p.alpha, rCut: p.rCut, rSoft: p.rSoft, softening: p.softening, table },

@@ -78,12 +78,16 @@ const SAFETY = 8;
 function solveGaussianTail(pref: number, eps: number): number {
   // f(x) = ln(pref) − ½ ln x − x² − ln eps, decreasing for x > 0
   const target = Math.log(eps);
-  const f = (x: number) => Math.log(2 * pref) - 0.5 * Math.log(x) - x * x - target;
+  const lead = Math.log(2 * pref);
+  const f = (x: number) => lead - 0.5 * Math.log(x) - x * x - target;
   let lo = 0.5, hi = 1;
   if (f(lo) <= 0) return lo;
   while (f(hi) > 0) hi *= 2;
+  // Bisection down to adjacent doubles (about 52 steps; at most 100): once the midpoint rounds onto an
+  // end, further steps change nothing.
   for (let it = 0; it < 100; it++) {
     const mid = 0.5 * (lo + hi);
+    if (mid === lo || mid === hi) break;
     if (f(mid) > 0) lo = mid;
     else hi = mid;
   }
@@ -108,13 +112,23 @@ export function plummerTailError(G: number, Q: number, V: number, eps: number, R
   return G * Math.sqrt(((Q / V) * 9 * Math.PI * eps ** 4) / (5 * R ** 5));
 }
 
+/** Cells per side of the clustering grid: about 8 particles per cell, 1 to 64 per side. */
+export function clusteringGrid(n: number, box: Box): [number, number, number] {
+  const perSide = Math.cbrt(n / 8 / boxVolume(box));
+  return boxSides(box).map((l) => Math.max(1, Math.min(64, Math.round(l * perSide)))) as [number, number, number];
+}
+
+/** The clustering factor from Σ n_c² over the grid's `cells` cells (1 below 16 particles; at least 1). */
+export function clusteringFromSumSq(sumSq: number, cells: number, n: number): number {
+  return n < 16 ? 1 : Math.max(1, (sumSq * cells) / (n * n));
+}
+
 /** Clustering factor N_cells·Σ n_c²/N² on a grid with about 8 particles per cell. */
 export function clusteringFactor(positions: Float64Array, box: Box): number {
   const n = positions.length / 3;
   if (n < 16) return 1;
   const sides = boxSides(box);
-  const perSide = Math.cbrt(n / 8 / boxVolume(box));
-  const g = sides.map((l) => Math.max(1, Math.min(64, Math.round(l * perSide))));
+  const g = clusteringGrid(n, box);
   const counts = new Float64Array(g[0] * g[1] * g[2]);
   for (let i = 0; i < n; i++) {
     const cx = Math.min(g[0] - 1, Math.floor((positions[3 * i] / sides[0]) * g[0]));
@@ -124,21 +138,36 @@ export function clusteringFactor(positions: Float64Array, box: Box): number {
   }
   let s = 0;
   for (const c of counts) s += c * c;
-  return Math.max(1, (s * counts.length) / (n * n));
+  return clusteringFromSumSq(s, counts.length, n);
+}
+
+/** Mass sums in input order: Σ m², Σ |m|^{3/2}, Σ |m|. */
+export interface MassSums {
+  readonly q: number;
+  readonly m32: number;
+  readonly mAbs: number;
+}
+
+export function massSums(masses: Float64Array): MassSums {
+  let q = 0, m32 = 0, mAbs = 0;
+  for (let i = 0; i < masses.length; i++) {
+    const m = masses[i];
+    q += m * m;
+    const a = Math.abs(m);
+    m32 += a * Math.sqrt(a);
+    mAbs += a;
+  }
+  return { q, m32, mAbs };
 }
 
 /**
  * The acceleration scale the tolerance refers to: the Holtsmark normal field 2.6031 G n^{2/3}⟨|m|^{3/2}⟩^{2/3}
  * times the expected smallest Holtsmark β among N particles, (9π/4N)^{1/3} (capped at 1).
+ * `sums`: massSums(masses) when the caller has them already.
  */
-export function accelerationScale(G: number, masses: Float64Array, V: number): number {
+export function accelerationScale(G: number, masses: Float64Array, V: number, sums: MassSums = massSums(masses)): number {
   const n = masses.length;
-  let m32 = 0, mAbs = 0;
-  for (let i = 0; i < n; i++) {
-    const a = Math.abs(masses[i]);
-    m32 += a * Math.sqrt(a);
-    mAbs += a;
-  }
+  const { m32, mAbs } = sums;
   if (n === 0 || mAbs === 0) return G;
   const holtsmark = 2 * Math.PI * Math.pow(4 / 15, 2 / 3) * G * Math.pow(n / V, 2 / 3) * Math.pow(m32 / n, 2 / 3);
   return holtsmark * Math.min(1, Math.cbrt((9 * Math.PI) / (4 * n)));
@@ -169,7 +198,7 @@ export function cellGridChoose(box: Box, n: number, rLoop: number): { cells: [nu
  * Chooses α, r_c, k_c (and the Plummer radius) for positions already wrapped into the box, minimising a
  * cost model under the error budget; explicit overrides are kept and their errors reported.
  * targetCount: how many targets will be evaluated (all-particle runs use the symmetric pair loop).
- * clusteringKnown: clusteringFactor(positions, box) when the caller has it already.
+ * clusteringKnown: clusteringFactor(positions, box) when the caller has it already; sums: massSums(masses).
  */
 export function ewaldParamsChoose(
   positions: Float64Array,
@@ -178,6 +207,7 @@ export function ewaldParamsChoose(
   options: EwaldOptions = {},
   targetCount: number = masses.length,
   clusteringKnown?: number,
+  sums: MassSums = massSums(masses),
 ): EwaldParams {
   const G = options.G ?? 1;
   const tol = options.tol ?? 1e-6;
@@ -190,11 +220,9 @@ export function ewaldParamsChoose(
   const n = masses.length;
   const V = boxVolume(box);
   const sides = boxSides(box);
-  let Q = 0;
-  for (let i = 0; i < n; i++) Q += masses[i] * masses[i];
-  if (Q === 0) Q = 1e-300;
+  const Q = sums.q === 0 ? 1e-300 : sums.q;
   const clustering = clusteringKnown ?? clusteringFactor(positions, box);
-  const scale = accelerationScale(G, masses, V);
+  const scale = accelerationScale(G, masses, V, sums);
   // Safety factor and the clustering margin c^{1/4} (see SAFETY and DEVELOPERS.md, "Error estimates").
   const budget = (tol * scale) / (SAFETY * Math.pow(clustering, 0.25));
   const eps = budget / Math.SQRT2;

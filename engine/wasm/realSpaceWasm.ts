@@ -31,13 +31,13 @@ export function realSpaceWasmCreate(cells: CellList, box: Box, k: RealSpaceKerne
   const n = cells.order.length;
   const nCells = cells.start.length - 1;
   const pad = 16;
-  const soa = [0, 1, 2, 3].map((c) => {
-    const p = arena.alloc(8 * n + pad);
-    const v = arena.f64(p, n);
-    for (let s = 0; s < n; s++) v[s] = cells.xyzm[4 * s + c];
-    return p;
-  });
+  const soa = [0, 1, 2, 3].map(() => arena.alloc(8 * n + pad));
   const acc = [0, 1, 2, 3].map(() => arena.alloc(8 * n + pad));
+  // The sorted particles split into SoA arrays inside the instance, through the accumulators' (contiguous,
+  // still unused) memory, which is zeroed again afterwards.
+  arena.f64(acc[0], 4 * n).set(cells.xyzm);
+  x.deinterleave4(acc[0], n, soa[0], soa[1], soa[2], soa[3]);
+  arena.f64(acc[0], 4 * n).fill(0);
   const pStart = arena.alloc(4 * (nCells + 1));
   arena.i32(pStart, nCells + 1).set(cells.start);
   const pStencil = arena.alloc(4 * cells.stencil.length);
