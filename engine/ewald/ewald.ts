@@ -13,7 +13,7 @@ import { type Box, boxMake, boxVolume, positionsWrap } from '../box';
 import { type CellList, cellListBuild, cellListCoordinates, cellListNeighbour, cellStencil } from './cellList';
 import { type KernelTable, kernelTableBuild } from './kernelTable';
 import { type KSpace, kSpaceBuild, kSpaceStructureFactor, kSpaceTargets, kSpaceWeigh } from './kSpace';
-import { type EwaldOptions, type EwaldParams, clusteringFromSumSq, clusteringGrid, ewaldParamsChoose } from './params';
+import { type EwaldOptions, type EwaldParams, type MassSums, clusteringFromSumSq, clusteringGrid, ewaldParamsChoose } from './params';
 import { type RealSpaceKernel, realSpaceAllSorted, realSpaceTargets } from './realSpace';
 import { type KSpaceWasm, kSpaceWasmCreate } from '../wasm/kSpaceWasm';
 import { type RealSpaceWasm, realSpaceWasmCreate } from '../wasm/realSpaceWasm';
@@ -134,7 +134,8 @@ export function ewaldSetup(
 }
 
 /**
- * The first half of ewaldSetup: validates, wraps positions into the box (a copy, in shared memory with
+ * The first half of ewaldSetup: validates, wraps positions into the box (one WebAssembly pass where
+ * available, engine/wasm/prepareWasm.ts; a copy, in shared memory with
  * options.sharedMemory), chooses the parameters and enumerates the k-vectors. Enough for
  * ewaldStructureFactor, so that threads can start on it while ewaldSetupBuild makes the cell list.
  */
@@ -149,28 +150,33 @@ export function ewaldChoose(
   boxMake(box.lx, box.ly, box.lz); // throws a RangeError naming a side that is not > 0
   const shared = options.sharedMemory === true;
   const wrappedPositions = float64s(positions.length, shared);
-  // WebAssembly: validation, wrapping, clustering counts and mass sums in one pass (same bits as below).
+  // WebAssembly: validation, wrapping, clustering counts and mass sums in one pass, the same bits as the
+  // JavaScript passes below.
   const prep = positions.length === 3 * masses.length ? prepareWasmCreate() : null;
+  let wrapped: number, clustering: number | undefined, sums: MassSums | undefined, totalMass: number;
   if (prep) {
     const grid = clusteringGrid(masses.length, box);
     const r = prep.particles(positions, masses, box, grid, wrappedPositions);
-    if (!r) particlesValidate(positions, masses); // throws, naming the particle
-    const { moved, clusterSumSq, q, m32, mAbs, total } = r!;
-    const clustering = checked?.clustering ?? clusteringFromSumSq(clusterSumSq, grid[0] * grid[1] * grid[2], masses.length);
-    const chosen = ewaldParamsChoose(wrappedPositions, masses, box, options, targetCount, clustering, { q, m32, mAbs });
-    const kspace = kSpaceBuild(box, chosen.alpha, chosen.kCut);
-    const params: EwaldParams = { ...chosen, hMax: kspace.hMax, kVectors: kspace.count };
-    return { box, positions: wrappedPositions, masses, wrapped: moved, params, kspace, totalMass: total, prep };
+    if (!r) {
+      particlesValidate(positions, masses); // names the particle
+      throw new EngineInputError('a mass or coordinate is not finite');
+    }
+    wrapped = r.moved;
+    clustering = checked?.clustering ?? clusteringFromSumSq(r.clusterSumSq, grid[0] * grid[1] * grid[2], masses.length);
+    sums = { q: r.q, m32: r.m32, mAbs: r.mAbs };
+    totalMass = r.total;
+  } else {
+    if (!checked) particlesValidate(positions, masses);
+    wrappedPositions.set(positions);
+    wrapped = positionsWrap(wrappedPositions, box);
+    clustering = checked?.clustering;
+    totalMass = 0;
+    for (let i = 0; i < masses.length; i++) totalMass += masses[i];
   }
-  if (!checked) particlesValidate(positions, masses);
-  wrappedPositions.set(positions);
-  const wrapped = positionsWrap(wrappedPositions, box);
-  const chosen = ewaldParamsChoose(wrappedPositions, masses, box, options, targetCount, checked?.clustering);
+  const chosen = ewaldParamsChoose(wrappedPositions, masses, box, options, targetCount, clustering, sums);
   const kspace = kSpaceBuild(box, chosen.alpha, chosen.kCut);
-  let totalMass = 0;
-  for (let i = 0; i < masses.length; i++) totalMass += masses[i];
   const params: EwaldParams = { ...chosen, hMax: kspace.hMax, kVectors: kspace.count };
-  return { box, positions: wrappedPositions, masses, wrapped, params, kspace, totalMass };
+  return { box, positions: wrappedPositions, masses, wrapped, params, kspace, totalMass, prep };
 }
 
 /**
