@@ -1,8 +1,8 @@
 /**
- * The worker threads of a direct-Ewald forces run, started ahead of need: before the snapshot is read, and
- * for `torusgrav forces` before the rest of the command line is even loaded (forcesPrestart). A Node
- * worker takes ~60 ms of an idle core to start, and about twice that while this thread loads and reads;
- * the run's structure factor should not wait for it. Small on purpose: main.ts loads it first.
+ * The worker threads of a direct-Ewald forces run, started ahead of need (before the snapshot is read): a
+ * Node worker takes ≈ 60 ms of an idle core and ≈ 2 100 page faults to start. Starting them even earlier,
+ * before the command line's modules load, was measured and dropped: the two start-ups slowed each other
+ * (0.63–0.71 s against 0.63–0.66 s for the whole command, alternating runs, 2026-12-02).
  */
 import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
@@ -29,7 +29,7 @@ let timingStarted = false;
 
 /**
  * Starts the threads − 1 workers of a coming ewaldForcesThreads call now, so that their start-up overlaps
- * the loading and reading. Unused workers do not keep the process alive; a later call with another count
+ * the reading. Unused workers do not keep the process alive; a later call with another count
  * or URL, or a run that stays on one thread, terminates them; a call while workers wait does nothing.
  */
 export function ewaldThreadsWarm(threads: number, workerUrl: URL = WORKER_URL): void {
@@ -81,37 +81,4 @@ export function warmClockTake(): PhaseClock {
   const c = warmClock ?? new PhaseClock();
   warmClock = null;
   return c;
-}
-
-/** The value of option `--name` in raw arguments (`--name V` or `--name=V`), without parsing the rest. */
-function optionPeek(argv: readonly string[], name: string): string | undefined {
-  for (let i = 0; i < argv.length; i++) {
-    if (argv[i] === name) return argv[i + 1];
-    if (argv[i].startsWith(`${name}=`)) return argv[i].slice(name.length + 1);
-  }
-  return undefined;
-}
-
-/**
- * How many threads a `torusgrav forces` run with direct Ewald (the default method) will ask for, from a
- * peek at the raw arguments; 0 when they are not such a run, ask for one thread, or do not say clearly.
- * forcesOptions.ts parses the arguments for real afterwards.
- */
-export function forcesPrestartThreads(argv: readonly string[]): number {
-  if (argv[0] !== 'forces' || argv.includes('--help') || argv.includes('-h')) return 0;
-  const method = optionPeek(argv, '--method');
-  if (method !== undefined && method.trim().toLowerCase() !== 'ewald') return 0;
-  const text = optionPeek(argv, '--threads');
-  const threads = text !== undefined ? Number(text) : argv.includes('--threads') ? 0 : defaultThreads();
-  return Number.isInteger(threads) && threads > 1 && threads <= 1024 ? threads : 0;
-}
-
-/**
- * Starts the workers of a `torusgrav forces` run with direct Ewald before the command line's modules are
- * loaded (forcesPrestartThreads); the run's own ewaldThreadsWarm keeps them when the count agrees, and a
- * wrong guess costs only a terminated worker.
- */
-export function forcesPrestart(argv: readonly string[]): void {
-  const threads = forcesPrestartThreads(argv);
-  if (threads > 1) ewaldThreadsWarm(threads);
 }
