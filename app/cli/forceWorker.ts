@@ -3,7 +3,7 @@
  * ewaldUnits.ts for the unit loops). It owns no numerics: every message maps to engine calls.
  */
 import { parentPort, workerData } from 'node:worker_threads';
-import { type EwaldChosen, type EwaldSetup, ewaldAllRealCollect, ewaldUnsort } from '../../engine/ewald/ewald';
+import { type EwaldChosen, type EwaldSetup, ewaldAllRealAddUnsorted } from '../../engine/ewald/ewald';
 import { kernelModule, kernelModuleShare } from '../../engine/wasm/module';
 import { type UnitsPlan, type UnitsShared, runUnitsBlocking, structureUnitsRun } from './ewaldUnits';
 import type { WorkerReply, WorkerRequest } from './parallelProtocol';
@@ -38,10 +38,7 @@ parentPort!.on('message', (msg: WorkerRequest) => {
         // The Fourier context made in phase 1 (chosen.kWasm) comes along with the spread.
         setup = { ...chosen!, params: msg.params, cells: msg.cells, kernel: msg.kernel };
         const units = runUnitsBlocking(setup, plan!, shared!, new Int32Array(msg.targets), new Float64Array(msg.acc), new Float64Array(msg.phi));
-        if (msg.realAcc && msg.realPhi) {
-          const { accSorted, phiSorted } = ewaldAllRealCollect(setup);
-          ewaldUnsort(setup, accSorted, phiSorted, new Float64Array(msg.realAcc), new Float64Array(msg.realPhi));
-        }
+        if (msg.realAcc && msg.realPhi) ewaldAllRealAddUnsorted(setup, new Float64Array(msg.realAcc), new Float64Array(msg.realPhi));
         reply({ type: 'ran', units });
         break;
       }

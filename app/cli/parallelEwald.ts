@@ -15,7 +15,7 @@ import {
   type EwaldResult,
   type EwaldSetup,
   type Progress,
-  ewaldAllRealCollect,
+  ewaldAllRealAddUnsorted,
   ewaldChoose,
   ewaldFinalize,
   ewaldForces,
@@ -25,7 +25,6 @@ import {
   ewaldSetupRefine,
   ewaldTargetsRun,
   ewaldTargetsValidate,
-  ewaldUnsort,
 } from '../../engine/ewald/ewald';
 import { targetsAll, targetsAreAll } from '../../engine/targets';
 import type { EwaldOptions } from '../../engine/ewald/params';
@@ -192,9 +191,8 @@ async function threadedRun(
     // Fourier sums into acc.
     let own: { acc: Float64Array; phi: Float64Array } | null = null;
     if (all) {
-      const sorted = ewaldAllRealCollect(setup);
       own = { acc: new Float64Array(3 * n), phi: new Float64Array(n) };
-      ewaldUnsort(setup, sorted.accSorted, sorted.phiSorted, own.acc, own.phi);
+      ewaldAllRealAddUnsorted(setup, own.acc, own.phi);
     }
     const workerUnits = (await Promise.all(replies)).reduce((u, r) => u + (r.type === 'ran' ? r.units : 0), 0);
     clock?.mark(all ? 'real + fourier, collect' : 'targets');

@@ -324,6 +324,20 @@ export function ewaldAllRealCollect(setup: EwaldSetup): { accSorted: Float64Arra
   return { accSorted, phiSorted };
 }
 
+/**
+ * Adds the accumulated all-particle real-space sums into input-order acc (3N) and phi (N) and clears them:
+ * ewaldAllRealCollect then ewaldUnsort, in one WebAssembly pass where the kernels run there.
+ */
+export function ewaldAllRealAddUnsorted(setup: EwaldSetup, acc: Float64Array, phi: Float64Array): void {
+  const w = realWasm(setup);
+  if (w) {
+    w.allAddUnsorted(acc, phi);
+    return;
+  }
+  const { accSorted, phiSorted } = ewaldAllRealCollect(setup);
+  ewaldUnsort(setup, accSorted, phiSorted, acc, phi);
+}
+
 /** Adds sorted-order raw sums into input-order arrays (acc 3N, phi N). */
 export function ewaldUnsort(setup: EwaldSetup, accSorted: Float64Array, phiSorted: Float64Array, acc: Float64Array, phi: Float64Array): void {
   const order = setup.cells.order;
@@ -432,8 +446,7 @@ export function ewaldForces(
       ewaldAllRealChunk(setup, c, Math.min(nc, c + step));
       onProgress?.(0.25 + (0.4 * Math.min(nc, c + step)) / nc);
     }
-    const { accSorted, phiSorted } = ewaldAllRealCollect(setup);
-    ewaldUnsort(setup, accSorted, phiSorted, acc, phi);
+    ewaldAllRealAddUnsorted(setup, acc, phi);
     for (let b = 0; b < n; b += chunk) {
       ewaldFourierChunk(setup, weighted, tg, b, Math.min(n, b + chunk), acc, phi);
       onProgress?.(0.65 + (0.35 * Math.min(n, b + chunk)) / n);

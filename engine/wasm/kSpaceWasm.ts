@@ -43,6 +43,13 @@ export function kSpaceWasmCreate(ks: KSpace, box: Box, positions: Float64Array, 
   let pTargets = 0, targetsRef: Int32Array | null = null;
   let pAcc = 0, pPhi = 0, chunkCap = 0;
   let weightedRef: Float64Array | null = null;
+  // Interleaved (re, im) staging for the callers' arrays: copied in and out whole, combined in WebAssembly.
+  const glue = k as unknown as Record<string, (...a: number[]) => void>;
+  let pS2 = 0;
+  const staging = (): Float64Array => {
+    if (pS2 === 0) pS2 = arena.alloc(16 * nk + 16);
+    return arena.f64(pS2, 2 * nk);
+  };
   return {
     structureFactor(begin, end, s) {
       arena.f64(pSr, nk).fill(0);
@@ -52,20 +59,15 @@ export function kSpaceWasmCreate(ks: KSpace, box: Box, positions: Float64Array, 
       for (let b = begin; b < end; b += CALL_PARTICLES) {
         k.structureFactor(pPos, pMass, b, Math.min(end, b + CALL_PARTICLES), nCol, ...pCols, Hx, Hy, Hz, tx, ty, tz, pSr, pSi, scratch);
       }
-      const sr = arena.f64(pSr, nk), si = arena.f64(pSi, nk);
-      for (let q = 0; q < nk; q++) {
-        s[2 * q] += sr[q];
-        s[2 * q + 1] += si[q];
-      }
+      staging().set(s.subarray(0, 2 * nk));
+      glue.addInterleaved(pSr, pSi, nk, pS2);
+      s.set(staging());
       weightedRef = null;
     },
     targets(ws, targets, begin, end, acc, phi) {
       if (weightedRef !== ws) {
-        const sr = arena.f64(pSr, nk), si = arena.f64(pSi, nk);
-        for (let q = 0; q < nk; q++) {
-          sr[q] = ws[2 * q];
-          si[q] = ws[2 * q + 1];
-        }
+        staging().set(ws.subarray(0, 2 * nk));
+        glue.deinterleave2(pS2, nk, pSr, pSi);
         weightedRef = ws;
       }
       if (targetsRef !== targets) {
@@ -79,20 +81,16 @@ export function kSpaceWasmCreate(ks: KSpace, box: Box, positions: Float64Array, 
         pAcc = arena.alloc(8 * 3 * chunkCap);
         pPhi = arena.alloc(8 * chunkCap);
       }
-      arena.f64(pAcc, 3 * m).fill(0);
-      arena.f64(pPhi, m).fill(0);
+      // The kernel adds into the chunk's current values, copied in and out whole.
+      arena.f64(pAcc, 3 * m).set(acc.subarray(3 * begin, 3 * end));
+      arena.f64(pPhi, m).set(phi.subarray(begin, end));
       // The kernel indexes acc by t; shift the base so that t = begin lands at the chunk's start.
       for (let b = begin; b < end; b += CALL_PARTICLES) {
         const e = Math.min(end, b + CALL_PARTICLES);
         k.fourierTargets(pPos, pTargets, b, e, nCol, ...pCols, Hx, Hy, Hz, tx, ty, tz, pSr, pSi, pAcc - 24 * begin, pPhi - 8 * begin, scratch);
       }
-      const a = arena.f64(pAcc, 3 * m), p = arena.f64(pPhi, m);
-      for (let t = 0; t < m; t++) {
-        acc[3 * (begin + t)] += a[3 * t];
-        acc[3 * (begin + t) + 1] += a[3 * t + 1];
-        acc[3 * (begin + t) + 2] += a[3 * t + 2];
-        phi[begin + t] += p[t];
-      }
+      acc.set(arena.f64(pAcc, 3 * m), 3 * begin);
+      phi.set(arena.f64(pPhi, m), begin);
     },
   };
 }

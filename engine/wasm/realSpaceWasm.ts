@@ -14,6 +14,8 @@ export interface RealSpaceWasm {
   allChunk(cellBegin: number, cellEnd: number): void;
   /** Adds the kept sums into accSorted (3N, sorted order) and phiSorted (N), then clears them. */
   allCollect(accSorted: Float64Array, phiSorted: Float64Array): void;
+  /** Adds the kept sums into input-order acc (3N) and phi (N) through `order` (cells.order), then clears them. */
+  allAddUnsorted(acc: Float64Array, phi: Float64Array): void;
   /** Per-target sums for targets[begin..end) (input rows), added into acc[3t..], phi[t]. */
   targets(targets: Int32Array, begin: number, end: number, acc: Float64Array, phi: Float64Array): void;
 }
@@ -57,6 +59,7 @@ export function realSpaceWasmCreate(cells: CellList, box: Box, k: RealSpaceKerne
     x.setKernel(k.alpha, k.rCut, k.rSoft, k.table.perUnit, k.table.uMax, pTable, SOFT_KIND[k.softening.kind], softLen);
   const [nx, ny, nz] = cells.n;
   let tslotRef: Int32Array | null = null;
+  let pOrder = 0, pDst = 0;
   let pTslot = 0;
   let pOut = 0, pPhi = 0, cap = 0;
   return {
@@ -77,6 +80,20 @@ export function realSpaceWasmCreate(cells: CellList, box: Box, k: RealSpaceKerne
         phiSorted[s] += ph[s];
       }
       for (const a of [ax, ay, az, ph]) a.fill(0);
+    },
+    allAddUnsorted(accOut, phiOut) {
+      // Copied in and out whole; the scatter through `order` runs in WebAssembly.
+      if (pOrder === 0) {
+        pOrder = arena.alloc(4 * n + pad);
+        arena.i32(pOrder, n).set(cells.order);
+        pDst = arena.alloc(32 * n + pad);
+      }
+      arena.f64(pDst, 3 * n).set(accOut.subarray(0, 3 * n));
+      arena.f64(pDst + 24 * n, n).set(phiOut.subarray(0, n));
+      x.addSoaUnsorted(acc[0], acc[1], acc[2], acc[3], pOrder, n, pDst, pDst + 24 * n);
+      accOut.set(arena.f64(pDst, 3 * n));
+      phiOut.set(arena.f64(pDst + 24 * n, n));
+      for (const p of acc) arena.f64(p, n).fill(0);
     },
     targets(targets, begin, end, out, phi) {
       setKernel();

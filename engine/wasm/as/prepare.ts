@@ -124,3 +124,40 @@ export function deinterleave4(src: usize, n: i32, d0: usize, d1: usize, d2: usiz
     store<f64>(d3 + o, load<f64>(s, 24));
   }
 }
+
+// Glue between the kernels' layouts and the callers' arrays (callers copy their arrays in and out with
+// typed-array set, so that no JavaScript loop touches the elements one by one).
+
+/** dst (2·nk f64, interleaved re, im) += (sr, si). */
+export function addInterleaved(sr: usize, si: usize, nk: i32, dst: usize): void {
+  for (let q = 0; q < nk; q++) {
+    const d = dst + (<usize>q << 4), o = <usize>q << 3;
+    store<f64>(d, load<f64>(d) + load<f64>(sr + o));
+    store<f64>(d, load<f64>(d, 8) + load<f64>(si + o), 8);
+  }
+}
+
+/** Splits nk interleaved pairs at src into d0 (re) and d1 (im). */
+export function deinterleave2(src: usize, nk: i32, d0: usize, d1: usize): void {
+  for (let q = 0; q < nk; q++) {
+    const s = src + (<usize>q << 4), o = <usize>q << 3;
+    store<f64>(d0 + o, load<f64>(s));
+    store<f64>(d1 + o, load<f64>(s, 8));
+  }
+}
+
+/**
+ * Adds sorted-order SoA sums (ax, ay, az, ph; n each) into input order: acc[3·order[s] + d] += a_d[s],
+ * phi[order[s]] += ph[s] (acc 3n f64, phi n f64, order n i32).
+ */
+export function addSoaUnsorted(ax: usize, ay: usize, az: usize, ph: usize, order: usize, n: i32, acc: usize, phi: usize): void {
+  for (let s = 0; s < n; s++) {
+    const i = <usize>load<i32>(order + (<usize>s << 2)), o = <usize>s << 3;
+    const a = acc + i * 24;
+    store<f64>(a, load<f64>(a) + load<f64>(ax + o));
+    store<f64>(a, load<f64>(a, 8) + load<f64>(ay + o), 8);
+    store<f64>(a, load<f64>(a, 16) + load<f64>(az + o), 16);
+    const p = phi + (i << 3);
+    store<f64>(p, load<f64>(p) + load<f64>(ph + o));
+  }
+}
