@@ -5,7 +5,6 @@
  * blanks around cells are ignored; columns the mapping does not use are not looked at.
  * Bytes go straight into typed arrays, streamed piece by piece: one pass, no per-row objects or strings.
  */
-import { Gunzip } from 'fflate';
 import { type ByteSource, bytesSource } from './byteSource';
 import { crc32Update } from './crc32';
 import { type Layout, layoutResolve } from './csvColumns';
@@ -52,6 +51,8 @@ async function textStream(
     }
     return;
   }
+  // fflate is loaded only for compressed files (building its tables costs a few ms at every start).
+  const { Gunzip } = await import('fflate');
   let out = 0;
   let crc = 0;
   let members = 0;

@@ -3,7 +3,6 @@
  * numpy.savez_compressed), one array per field ("pos" N×3, "mass" N, or "x", "y", "z" …). Members are
  * streamed (inflated piece by piece) and checked against their CRC-32.
  */
-import { Inflate } from 'fflate';
 import type { ArrayStore, StoredArray } from './arrayStore';
 import { storeAssemble } from './assemble';
 import { type ByteSource, bytesSource } from './byteSource';
@@ -52,6 +51,7 @@ async function memberStream(
     }
     return { crc, produced, stopped };
   }
+  const { Inflate } = await import('fflate'); // loaded only for deflated entries
   let failure: unknown = null;
   const inflate = new Inflate((chunk) => {
     try {
