@@ -12,6 +12,7 @@ import type { Softening } from '../../engine/softening';
 import { targetsResolve } from '../../engine/targets';
 import { outputProblem, outputWriteAtomic } from './atomicOutput';
 import { jitLight, jitLightSuits } from './jitPolicy';
+import { nonFiniteTarget } from './resultCheck';
 import { PhaseClock, phaseLines, timingEnabled } from './phaseTiming';
 import { CliError, UsageError } from './cliErrors';
 import type { CliIo } from './cliIo';
@@ -110,10 +111,8 @@ export async function forcesRun(argv: readonly string[], io: CliIo, helpText: ()
   const tComputed = io.now();
   // Reported after the run so that a failing run still prints exactly one line.
   if (outside.outside > 0) io.stderr(outsideWarning(outside.outside, n, box, file, snapshot, outside.firstOutside));
-  for (let t = 0; t < result.targets.length; t++) {
-    const bad = !Number.isFinite(result.phi[t]) || !Number.isFinite(result.acc[3 * t]) || !Number.isFinite(result.acc[3 * t + 1]) || !Number.isFinite(result.acc[3 * t + 2]);
-    if (bad) throw new CliError(`internal error: non-finite result for ${particlePlace(snapshot, result.targets[t])}; please report this with the input file`, 1);
-  }
+  const bad = nonFiniteTarget(result.acc, result.phi);
+  if (bad >= 0) throw new CliError(`internal error: non-finite result for ${particlePlace(snapshot, result.targets[bad])}; please report this with the input file`, 1);
   const ids = targetIds(snapshot, result.targets);
   const errors = snapshot.accelerations ? relativeErrors(snapshot.accelerations, result.targets, result.acc) : null;
   const columns: CsvColumn[] = [

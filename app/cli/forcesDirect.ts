@@ -17,6 +17,7 @@ import { type OrderSettings, orderEngineOptions } from './orderOptions';
 import { imageSumRun } from './orderRun';
 import { progressLine } from './progress';
 import { particlePlace } from './snapshotFile';
+import { nonFiniteTarget } from './resultCheck';
 
 /** What the acceleration of each order is, for the summary. */
 export function orderAccelerationText(s: OrderSettings, shells: number | null): string {
@@ -46,11 +47,8 @@ export async function forcesDirectRun(settings: ForcesSettings, order: OrderSett
     progress.done();
   }
   if (outside.outside > 0) io.stderr(outsideWarning(outside.outside, n, box, file, snapshot, outside.firstOutside));
-  for (let t = 0; t < result.targets.length; t++) {
-    if (!Number.isFinite(result.acc[3 * t]) || !Number.isFinite(result.acc[3 * t + 1]) || !Number.isFinite(result.acc[3 * t + 2])) {
-      throw new CliError(`internal error: non-finite result for ${particlePlace(snapshot, result.targets[t])}; please report this with the input file`, 1);
-    }
-  }
+  const bad = nonFiniteTarget(result.acc, null);
+  if (bad >= 0) throw new CliError(`internal error: non-finite result for ${particlePlace(snapshot, result.targets[bad])}; please report this with the input file`, 1);
   const columns = [
     { name: 'id', values: targetIds(snapshot, result.targets), integer: true },
     { name: 'ax', values: result.acc, stride: 3, offset: 0 },

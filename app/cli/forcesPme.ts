@@ -19,6 +19,7 @@ import type { ForcesSettings } from './forcesOptions';
 import { type PmeThreadsResult, pmeForcesThreads } from './parallelPme';
 import { progressLine } from './progress';
 import { particlePlace } from './snapshotFile';
+import { nonFiniteTarget } from './resultCheck';
 
 /** A number with `digits` significant digits, in exponent form when very small or large. */
 function g(v: number, digits = 4): string {
@@ -91,10 +92,9 @@ export async function forcesPmeRun(settings: ForcesSettings, snapshot: Snapshot,
     const p = targets[t];
     for (let d = 0; d < 3; d++) acc[3 * t + d] = result.acc[3 * p + d];
     phi[t] = result.phi[p];
-    if (!Number.isFinite(phi[t]) || !Number.isFinite(acc[3 * t]) || !Number.isFinite(acc[3 * t + 1]) || !Number.isFinite(acc[3 * t + 2])) {
-      throw new CliError(`internal error: non-finite result for ${particlePlace(snapshot, p)}; please report this with the input file`, 1);
-    }
   }
+  const bad = nonFiniteTarget(acc, phi);
+  if (bad >= 0) throw new CliError(`internal error: non-finite result for ${particlePlace(snapshot, targets[bad])}; please report this with the input file`, 1);
   const errors = snapshot.accelerations ? relativeErrors(snapshot.accelerations, targets, result.acc) : null;
   const columns: CsvColumn[] = [
     { name: 'id', values: targetIds(snapshot, targets), integer: true },
