@@ -75,7 +75,7 @@ const COST_K = 1.05;
 const SAFETY = 8;
 
 /** Solves 2·A·√(s/x)·e^{−x²} = eps for x ≥ 0.5 (the shape of both Kolafa–Perram estimates). */
-function solveGaussianTail(pref: number, eps: number): number {
+export function solveGaussianTail(pref: number, eps: number): number {
   // f(x) = ln(pref) − ½ ln x − x² − ln eps, decreasing for x > 0
   const target = Math.log(eps);
   const lead = Math.log(2 * pref);
@@ -83,8 +83,18 @@ function solveGaussianTail(pref: number, eps: number): number {
   let lo = 0.5, hi = 1;
   if (f(lo) <= 0) return lo;
   while (f(hi) > 0) hi *= 2;
-  // Bisection down to adjacent doubles (about 52 steps; at most 100): once the midpoint rounds onto an
-  // end, further steps change nothing.
+  // f is concave and decreasing here, so Newton steps from hi stay at or above the root: a few of them,
+  // then a bracket of ±2^−40 around the estimate (kept only if it brackets), cut the bisection below from
+  // about 52 steps to about 12.
+  let x = hi;
+  for (let it = 0; it < 8; it++) x -= f(x) / (-0.5 / x - 2 * x);
+  const a = x * (1 - 2 ** -40), b = x * (1 + 2 ** -40);
+  if (a > lo && b < hi && f(a) > 0 && f(b) <= 0) {
+    lo = a;
+    hi = b;
+  }
+  // Bisection down to adjacent doubles (at most 100 steps): once the midpoint rounds onto an end, further
+  // steps change nothing.
   for (let it = 0; it < 100; it++) {
     const mid = 0.5 * (lo + hi);
     if (mid === lo || mid === hi) break;
