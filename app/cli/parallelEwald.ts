@@ -4,8 +4,9 @@
  *   choose (here: wrap, parameters, k-vectors; the workers, which ewaldThreadsWarm may have started
  *   while the snapshot was read, start on the structure factor at once) → cell list (here, meanwhile) →
  *   structure-factor units, then real-space cell units and Fourier units, which every thread takes from
- *   shared counters (ewaldUnits.ts) → each thread unsorts its real-space sums → finalize (adding them) and
- *   the weak-field refinement (a second threaded run on the same workers) here.
+ *   shared counters (ewaldUnits.ts) → each worker unsorts its real-space sums → finalize here (adding this
+ *   thread's and the workers' sums, ewaldFinalizeAll) and the weak-field refinement (on this thread for a
+ *   few targets, else a second threaded run on the same workers).
  */
 import { Worker } from 'node:worker_threads';
 import { type Box } from '../../engine/box';
@@ -15,7 +16,7 @@ import {
   type EwaldResult,
   type EwaldSetup,
   type Progress,
-  ewaldAllRealAddUnsorted,
+  ewaldFinalizeAll,
   ewaldChoose,
   ewaldFinalize,
   ewaldForces,
@@ -122,9 +123,10 @@ class Pool {
 }
 
 /**
- * One threaded run on the pool: raw sums (before ewaldFinalize) for targets `tg` (input rows; `all`: every
- * particle in order, symmetric real space), in fresh arrays, with the threads' real-space sums of an
- * all-particle run apart (realParts, for ewaldFinalize to add); `checked` as for ewaldSetup.
+ * One threaded run on the pool: raw sums (before finalizing) for targets `tg` (input rows; `all`: every
+ * particle in order, symmetric real space), in fresh arrays. In an all-particle run acc/phi hold the
+ * Fourier sums; this thread's real-space sums stay in its setup and the workers' come apart (workerParts,
+ * input order): ewaldFinalizeAll adds both. `checked` as for ewaldSetup.
  */
 async function threadedRun(
   pool: Pool,
@@ -138,7 +140,7 @@ async function threadedRun(
   checked?: EwaldChecked,
   clock?: PhaseClock,
   onProgress?: Progress,
-): Promise<{ setup: EwaldSetup; acc: Float64Array; phi: Float64Array; realParts: { acc: Float64Array; phi: Float64Array }[]; workerUnits: number }> {
+): Promise<{ setup: EwaldSetup; acc: Float64Array; phi: Float64Array; workerParts: { acc: Float64Array; phi: Float64Array }[]; workerUnits: number }> {
   const n = masses.length;
   const K = tg.length;
   const opts = { ...options, sharedMemory: true };
@@ -164,7 +166,7 @@ async function threadedRun(
     const tgShared = sharedArray(tg);
     const built = buildShared(setup);
     // All-particle runs: each worker unsorts its real-space sums into buffers of its own when its units are
-    // done, while this thread does its own; they are added here (per particle, the same additions as
+    // done; ewaldFinalizeAll adds them after this thread's own (per particle, the same additions as
     // unsorting them all here).
     const parts = Array.from({ length: all ? pool.size : 0 }, () => ({ acc: new SharedArrayBuffer(8 * 3 * n), phi: new SharedArrayBuffer(8 * n) }));
     for (let i = 0; i < pool.size; i++) {
@@ -187,20 +189,12 @@ async function threadedRun(
       const w = Atomics.waitAsync(stopFlag, wait[0], wait[1], 200);
       if (w.async) await Promise.race([w.value, failed]);
     }
-    // This thread's real-space sums, unsorted into a buffer of its own: a worker may still be adding
-    // Fourier sums into acc.
-    let own: { acc: Float64Array; phi: Float64Array } | null = null;
-    if (all) {
-      own = { acc: new Float64Array(3 * n), phi: new Float64Array(n) };
-      ewaldAllRealAddUnsorted(setup, own.acc, own.phi);
-    }
     const workerUnits = (await Promise.all(replies)).reduce((u, r) => u + (r.type === 'ran' ? r.units : 0), 0);
     clock?.mark(all ? 'real + fourier, collect' : 'targets');
     // Every worker has replied, so nothing writes into the shared arrays any more: they are returned as
-    // they are (a copy would touch fresh memory, ~15 µs per 4 KiB page on these machines). The real-space
-    // parts are added by ewaldFinalize.
-    const realParts = own ? [own, ...parts.map((q) => ({ acc: new Float64Array(q.acc), phi: new Float64Array(q.phi) }))] : [];
-    return { setup, acc, phi, realParts, workerUnits };
+    // they are (a copy would touch fresh memory, ~15 µs per 4 KiB page on these machines).
+    const workerParts = parts.map((q) => ({ acc: new Float64Array(q.acc), phi: new Float64Array(q.phi) }));
+    return { setup, acc, phi, workerParts, workerUnits };
   } catch (e) {
     if (stopFlag) Atomics.store(stopFlag, CTL_STOP, 1); // the workers stop taking units
     throw e;
@@ -243,7 +237,8 @@ export async function ewaldForcesThreads(
   try {
     const run = await threadedRun(pool, threads, positions, masses, box, tg, all, options, undefined, clock, onProgress);
     const { setup, acc, phi } = run;
-    ewaldFinalize(setup, tg, acc, phi, run.realParts);
+    if (all) ewaldFinalizeAll(setup, acc, phi, run.workerParts);
+    else ewaldFinalize(setup, tg, acc, phi);
     clock.mark('finalize');
     // Weak-field refinement (the engine's rule, ewaldRefineWeak): a few targets (the usual case) here on
     // the run's own particles and cell list; many on all threads.
@@ -252,7 +247,7 @@ export async function ewaldForcesThreads(
       ewaldWeakReplace(weak, ewaldTargetsRun(ewaldSetupRefine(setup, { ...options, tol: weak.tol }, weak.rows.length), weak.rows), acc, phi);
     } else if (weak) {
       const r = await threadedRun(pool, threads, positions, masses, box, weak.rows, false, { ...options, tol: weak.tol }, { clustering: setup.params.clustering });
-      ewaldFinalize(r.setup, weak.rows, r.acc, r.phi, r.realParts);
+      ewaldFinalize(r.setup, weak.rows, r.acc, r.phi);
       ewaldWeakReplace(weak, r, acc, phi);
     }
     const refined = weak ? weak.rows.length : 0;

@@ -383,6 +383,32 @@ export function ewaldFinalize(
   }
 }
 
+/**
+ * ewaldFinalize for an all-particle run (targets = every particle in input order) on acc/phi, which hold
+ * the Fourier sums, with this setup's kept symmetric real-space sums (as ewaldAllRealAddUnsorted) and
+ * `parts` (other threads' real-space sums, input order) added first, in that order: the same operations
+ * as ewaldAllRealAddUnsorted into zeroed arrays followed by ewaldFinalize(setup, all, acc, phi, [those,
+ * ...parts]), in WebAssembly inside the real-space context where the kernels run there.
+ */
+export function ewaldFinalizeAll(
+  setup: EwaldSetup,
+  acc: Float64Array,
+  phi: Float64Array,
+  parts: readonly { readonly acc: Float64Array; readonly phi: Float64Array }[] = [],
+): void {
+  const n = setup.masses.length;
+  const w = realWasm(setup);
+  if (w) {
+    const { G, alpha } = setup.params;
+    const background = (Math.PI * setup.totalMass) / (alpha * alpha * boxVolume(setup.box));
+    w.allFinalize(acc, phi, parts, G, (2 * alpha) / Math.sqrt(Math.PI), background);
+    return;
+  }
+  const own = { acc: new Float64Array(3 * n), phi: new Float64Array(n) };
+  ewaldAllRealAddUnsorted(setup, own.acc, own.phi);
+  ewaldFinalize(setup, targetsAll(n), acc, phi, [own, ...parts]);
+}
+
 export interface EwaldResult {
   /** Targets (input rows) in output order. */
   readonly targets: Int32Array;

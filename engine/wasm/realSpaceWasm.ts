@@ -16,6 +16,12 @@ export interface RealSpaceWasm {
   allCollect(accSorted: Float64Array, phiSorted: Float64Array): void;
   /** Adds the kept sums into input-order acc (3N) and phi (N) through `order` (cells.order), then clears them. */
   allAddUnsorted(acc: Float64Array, phi: Float64Array): void;
+  /**
+   * ewaldFinalize for all particles, in place on acc (3N) and phi (N), which hold other sums (e.g. Fourier)
+   * on entry: adds the kept sums (as allAddUnsorted), then each of `parts` (input order), then applies G,
+   * the self term and the background constant. The same operations in the same order as the twins.
+   */
+  allFinalize(acc: Float64Array, phi: Float64Array, parts: readonly { acc: Float64Array; phi: Float64Array }[], G: number, selfCoef: number, background: number): void;
   /** Per-target sums for targets[begin..end) (input rows), added into acc[3t..], phi[t]. */
   targets(targets: Int32Array, begin: number, end: number, acc: Float64Array, phi: Float64Array): void;
 }
@@ -60,6 +66,21 @@ export function realSpaceWasmCreate(cells: CellList, box: Box, k: RealSpaceKerne
   const [nx, ny, nz] = cells.n;
   let tslotRef: Int32Array | null = null;
   let pOrder = 0, pDst = 0;
+  /**
+   * acc (3N) and phi (N) copied whole into the staging area, the kept sums added through `order` (the
+   * scatter runs in WebAssembly), the kept sums cleared.
+   */
+  const unsortedIn = (accIn: Float64Array, phiIn: Float64Array): void => {
+    if (pOrder === 0) {
+      pOrder = arena.alloc(4 * n + pad);
+      arena.i32(pOrder, n).set(cells.order);
+      pDst = arena.alloc(32 * n + pad);
+    }
+    arena.f64(pDst, 3 * n).set(accIn.subarray(0, 3 * n));
+    arena.f64(pDst + 24 * n, n).set(phiIn.subarray(0, n));
+    x.addSoaUnsorted(acc[0], acc[1], acc[2], acc[3], pOrder, n, pDst, pDst + 24 * n);
+    for (const p of acc) arena.f64(p, n).fill(0);
+  };
   let pTslot = 0;
   let pOut = 0, pPhi = 0, cap = 0;
   return {
@@ -82,18 +103,23 @@ export function realSpaceWasmCreate(cells: CellList, box: Box, k: RealSpaceKerne
       for (const a of [ax, ay, az, ph]) a.fill(0);
     },
     allAddUnsorted(accOut, phiOut) {
-      // Copied in and out whole; the scatter through `order` runs in WebAssembly.
-      if (pOrder === 0) {
-        pOrder = arena.alloc(4 * n + pad);
-        arena.i32(pOrder, n).set(cells.order);
-        pDst = arena.alloc(32 * n + pad);
-      }
-      arena.f64(pDst, 3 * n).set(accOut.subarray(0, 3 * n));
-      arena.f64(pDst + 24 * n, n).set(phiOut.subarray(0, n));
-      x.addSoaUnsorted(acc[0], acc[1], acc[2], acc[3], pOrder, n, pDst, pDst + 24 * n);
+      unsortedIn(accOut, phiOut);
       accOut.set(arena.f64(pDst, 3 * n));
       phiOut.set(arena.f64(pDst + 24 * n, n));
-      for (const p of acc) arena.f64(p, n).fill(0);
+    },
+    allFinalize(accOut, phiOut, parts, G, selfCoef, background) {
+      unsortedIn(accOut, phiOut);
+      // Each part through the accumulators' memory (consecutive, already touched, zeroed again afterwards).
+      for (const q of parts) {
+        arena.f64(acc[0], 3 * n).set(q.acc.subarray(0, 3 * n));
+        x.addInto(acc[0], 3 * n, pDst);
+        arena.f64(acc[0], n).set(q.phi.subarray(0, n));
+        x.addInto(acc[0], n, pDst + 24 * n);
+      }
+      if (parts.length > 0) arena.f64(acc[0], 3 * n).fill(0);
+      x.finalizeAll(pDst, pDst + 24 * n, soa[3], pOrder, n, G, selfCoef, background);
+      accOut.set(arena.f64(pDst, 3 * n));
+      phiOut.set(arena.f64(pDst + 24 * n, n));
     },
     targets(targets, begin, end, out, phi) {
       setKernel();

@@ -161,3 +161,27 @@ export function addSoaUnsorted(ax: usize, ay: usize, az: usize, ph: usize, order
     store<f64>(p, load<f64>(p) + load<f64>(ph + o));
   }
 }
+
+/** dst[k] += src[k] for k < count (f64). */
+export function addInto(src: usize, count: i32, dst: usize): void {
+  for (let k = 0; k < count; k++) {
+    const o = <usize>k << 3;
+    store<f64>(dst + o, load<f64>(dst + o) + load<f64>(src + o));
+  }
+}
+
+/**
+ * ewaldFinalize for all particles in input order, in place: acc ← G·acc (3n); phi[i] ← −G(phi[i] −
+ * m_i·selfCoef − background), with m_i = ms[s] for i = order[s] (the sorted masses of a real-space context).
+ */
+export function finalizeAll(acc: usize, phi: usize, ms: usize, order: usize, n: i32, G: f64, selfCoef: f64, background: f64): void {
+  for (let k = 0; k < 3 * n; k++) {
+    const o = <usize>k << 3;
+    store<f64>(acc + o, G * load<f64>(acc + o));
+  }
+  for (let s = 0; s < n; s++) {
+    const i = <usize>load<i32>(order + (<usize>s << 2));
+    const p = phi + (i << 3);
+    store<f64>(p, -G * (load<f64>(p) - load<f64>(ms + (<usize>s << 3)) * selfCoef - background));
+  }
+}
