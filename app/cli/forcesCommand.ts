@@ -11,7 +11,6 @@ import { snapshotPlace, snapshotValidate } from '../../engine/formats/validate';
 import type { Softening } from '../../engine/softening';
 import { targetsResolve } from '../../engine/targets';
 import { outputProblem, outputWriteAtomic } from './atomicOutput';
-import { jitLight, jitLightSuits } from './jitPolicy';
 import { nonFiniteTarget } from './resultCheck';
 import { PhaseClock, phaseLines, timingEnabled } from './phaseTiming';
 import { CliError, UsageError } from './cliErrors';
@@ -79,7 +78,6 @@ export async function forcesRun(argv: readonly string[], io: CliIo, helpText: ()
   if (resolve(out) === resolve(file)) throw new UsageError(`--out ${out} is the input file; choose another name`, COMMAND);
   const problem = outputProblem(out);
   if (problem) throw new CliError(`--out ${out}: ${problem}`);
-  if (settings.method === 'ewald' && !settings.direct && jitLightSuits(file)) jitLight(); // a short run (jitPolicy.ts)
   if (settings.method === 'ewald') ewaldThreadsWarm(settings.threads); // worker start-up overlaps the reading
   const t0 = io.now();
   const snapshot = await snapshotFileRead(file, settings.mapping, {

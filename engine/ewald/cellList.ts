@@ -58,6 +58,39 @@ export function cellStencil(w: [number, number, number], rCut: number): { offset
   return { offsets, halfCount: 1 + half };
 }
 
+/**
+ * The stencil offsets first..end−1 grouped into columns: 4 ints per column (ox, oy, ozLow, ozHigh), in the
+ * order each (ox, oy) first appears. A column's cells are consecutive in the sorted order (cells are
+ * numbered with z fastest), so a kernel can meet a column in one run of sources per periodic image.
+ * Throws if a column's oz values are not one contiguous range (never for cellStencil's offsets, whose
+ * reach in z shrinks monotonically away from the centre).
+ */
+export function cellColumns(stencil: Int32Array, first: number, end: number): Int32Array {
+  const index = new Map<string, number>();
+  const cols: number[] = [];
+  const counts: number[] = [];
+  for (let q = first; q < end; q++) {
+    const ox = stencil[3 * q], oy = stencil[3 * q + 1], oz = stencil[3 * q + 2];
+    const key = `${ox},${oy}`;
+    let c = index.get(key);
+    if (c === undefined) {
+      c = counts.length;
+      index.set(key, c);
+      cols.push(ox, oy, oz, oz);
+      counts.push(0);
+    }
+    cols[4 * c + 2] = Math.min(cols[4 * c + 2], oz);
+    cols[4 * c + 3] = Math.max(cols[4 * c + 3], oz);
+    counts[c]++;
+  }
+  for (let c = 0; c < counts.length; c++) {
+    if (cols[4 * c + 3] - cols[4 * c + 2] + 1 !== counts[c]) {
+      throw new Error(`stencil column (${cols[4 * c]}, ${cols[4 * c + 1]}) is not contiguous in z`);
+    }
+  }
+  return Int32Array.from(cols);
+}
+
 /** Number of stencil cells for cells of width w and cutoff rCut (cost model helper). */
 export function cellStencilSize(w: [number, number, number], rCut: number): number {
   return cellStencil(w, rCut).offsets.length / 3;

@@ -1,10 +1,10 @@
 /**
  * The real-space kernels of realSpace.ts run in WebAssembly (SIMD, two pairs per step): same pair terms,
- * same kernel table. One context per setup (per thread): sorted particles (as SoA), cell offsets, stencil
+ * same kernel table. One context per setup (per thread): sorted particles (as SoA), cell offsets, stencil columns
  * and table are copied into the instance's memory once; all-particle sums accumulate there until collected.
  */
 import { type Box } from '../box';
-import { type CellList } from '../ewald/cellList';
+import { type CellList, cellColumns } from '../ewald/cellList';
 import { KERNEL_STRIDE } from '../ewald/kernelTable';
 import { type RealSpaceKernel } from '../ewald/realSpace';
 import { WasmArena, kernelInstance } from './module';
@@ -48,8 +48,15 @@ export function realSpaceWasmCreate(cells: CellList, box: Box, k: RealSpaceKerne
   arena.f64(acc[0], 4 * n).fill(0);
   const pStart = arena.alloc(4 * (nCells + 1));
   arena.i32(pStart, nCells + 1).set(cells.start);
-  const pStencil = arena.alloc(4 * cells.stencil.length);
-  arena.i32(pStencil, cells.stencil.length).set(cells.stencil);
+  // Stencil columns: the half stencil's (own column first) for the all-particle loop, the full one's for targets.
+  const columns = (first: number, end: number): [number, number] => {
+    const c = cellColumns(cells.stencil, first, end);
+    const p = arena.alloc(4 * c.length);
+    arena.i32(p, c.length).set(c);
+    return [p, c.length / 4];
+  };
+  const [pHalf, nHalf] = columns(0, cells.halfCount);
+  let full: [number, number] | null = null;
   // Table re-laid for the kernel: per interval (P0, Q0, P1, Q1, …) instead of (P0..P5, Q0..Q5).
   const pTable = arena.alloc(8 * k.table.coef.length);
   const tab = arena.f64(pTable, k.table.coef.length);
@@ -89,7 +96,7 @@ export function realSpaceWasmCreate(cells: CellList, box: Box, k: RealSpaceKerne
       // Many short calls rather than one long one (wasm tier-up happens between calls).
       const step = Math.max(1, Math.ceil((CALL_PARTICLES * nCells) / Math.max(1, n)));
       for (let c = cellBegin; c < cellEnd; c += step) {
-        x.realSpaceAll(c, Math.min(cellEnd, c + step), nx, ny, nz, box.lx, box.ly, box.lz, cells.w[0], cells.w[1], cells.w[2], pStart, pStencil, cells.halfCount, ...soa, ...acc);
+        x.realSpaceAll(c, Math.min(cellEnd, c + step), nx, ny, nz, box.lx, box.ly, box.lz, cells.w[0], cells.w[1], cells.w[2], pStart, pHalf, nHalf, ...soa, ...acc);
       }
     },
     allCollect(accSorted, phiSorted) {
@@ -123,6 +130,7 @@ export function realSpaceWasmCreate(cells: CellList, box: Box, k: RealSpaceKerne
     },
     targets(targets, begin, end, out, phi) {
       setKernel();
+      full ??= columns(0, cells.stencil.length / 3);
       if (tslotRef !== targets) {
         pTslot = arena.alloc(4 * targets.length);
         const ts = arena.i32(pTslot, targets.length);
@@ -140,7 +148,7 @@ export function realSpaceWasmCreate(cells: CellList, box: Box, k: RealSpaceKerne
       for (let b = begin; b < end; b += CALL_PARTICLES) {
         // The kernel writes acc/phi relative to its own begin: offset the output pointers.
         x.realSpaceTargets(pTslot, b, Math.min(end, b + CALL_PARTICLES), nx, ny, nz, box.lx, box.ly, box.lz, cells.w[0], cells.w[1], cells.w[2],
-          pStart, pStencil, cells.stencil.length / 3, ...soa, pOut + 24 * (b - begin), pPhi + 8 * (b - begin));
+          pStart, full[0], full[1], ...soa, pOut + 24 * (b - begin), pPhi + 8 * (b - begin));
       }
       const a = arena.f64(pOut, 3 * m), p = arena.f64(pPhi, m);
       for (let t = 0; t < m; t++) {

@@ -98,6 +98,9 @@ let vPp: v128 = f64x2.splat(0);
  * vAx.. with sign −m_j F d (and Σ m_j Ψ). When `symmetric`, also adds +m_i F d, m_i Ψ into the sources'
  * accumulators. `soft`: a softening radius is set, so some lanes may need the scalar path. The flags are
  * compile-time constants at every call, so each combination is its own specialised loop.
+ * Two sources per step; an odd last source runs as a vector step whose second lane is masked off: that
+ * lane reads the slot j1 (the next cell's first particle, or the zero padding after the last one) and, when
+ * `symmetric`, writes its accumulators back unchanged (m_i·0 added).
  */
 @inline function pairRun(
   px: f64, py: f64, pz: f64, mi: f64, symmetric: bool, soft: bool, checkSkip: bool, j0: i32, j1: i32, skip: i32,
@@ -109,25 +112,25 @@ let vPp: v128 = f64x2.splat(0);
   const a3v = f64x2.splat(gAlpha3), a1v = f64x2.splat(gAlpha);
   const one = f64x2.splat(1.0), two = f64x2.splat(2.0), magic = f64x2.splat(4503599627370496.0);
   const miv = f64x2.splat(mi);
+  const both = i64x2.splat(-1), first = i64x2(-1, 0);
   const table = gTable;
   let sAx = f64x2.splat(0), sAy = f64x2.splat(0), sAz = f64x2.splat(0), sPp = f64x2.splat(0);
-  let j = j0;
-  for (; j + 1 < j1; j += 2) {
+  for (let j = j0; j < j1; j += 2) {
     const jo = <usize>j << 3;
     const dx = f64x2.sub(pxv, v128.load(xs + jo));
     const dy = f64x2.sub(pyv, v128.load(ys + jo));
     const dz = f64x2.sub(pzv, v128.load(zs + jo));
     const r2 = madd(dz, dz, madd(dy, dy, f64x2.mul(dx, dx)));
-    const inside = f64x2.lt(r2, rl2v);
+    const inside = v128.and(f64x2.lt(r2, rl2v), select<v128>(both, first, j + 1 < j1));
     if (!v128.any_true(inside)) continue;
     // Lanes that need the scalar path: softened, beyond rCut (softening only), or the skipped self term.
     let scalar = false;
-    if (soft) scalar = v128.any_true(v128.or(f64x2.lt(r2, rs2v), v128.and(inside, f64x2.ge(r2, rc2v))));
+    if (soft) scalar = v128.any_true(v128.and(inside, v128.or(f64x2.lt(r2, rs2v), f64x2.ge(r2, rc2v))));
     if (checkSkip) scalar = scalar || j == skip || j + 1 == skip;
     if (scalar) {
       for (let l = 0; l < 2; l++) {
         const jj = j + l;
-        if (checkSkip && jj == skip) continue;
+        if (jj >= j1 || (checkSkip && jj == skip)) continue;
         const ddx = px - load<f64>(xs + (<usize>jj << 3));
         const ddy = py - load<f64>(ys + (<usize>jj << 3));
         const ddz = pz - load<f64>(zs + (<usize>jj << 3));
@@ -161,6 +164,7 @@ let vPp: v128 = f64x2.splat(0);
     const pq1 = hornerPQ(table + <usize>i32x4.extract_lane(bits, 2) * 96, f64x2.extract_lane(t, 1));
     const P = f64x2.shuffle(pq0, pq1, 0, 2);
     const Q = f64x2.shuffle(pq0, pq1, 1, 3);
+    // The mask clears every bit of a lane outside (also an infinity from a coincident masked-off lane).
     const F = v128.and(nmadd(a3v, P, f64x2.mul(f64x2.mul(ir, ir), ir)), inside);
     const Pot = v128.and(nmadd(a1v, Q, ir), inside);
     const mj = v128.load(ms + jo);
@@ -176,26 +180,6 @@ let vPp: v128 = f64x2.splat(0);
       v128.store(ph + jo, madd(miv, Pot, v128.load(ph + jo)));
     }
   }
-  if (j < j1 && !(checkSkip && j == skip)) {
-    const jo = <usize>j << 3;
-    const ddx = px - load<f64>(xs + jo), ddy = py - load<f64>(ys + jo), ddz = pz - load<f64>(zs + jo);
-    const rr = ddx * ddx + ddy * ddy + ddz * ddz;
-    if (rr < gRl2) {
-      pairScalar(rr);
-      const mj = load<f64>(ms + jo);
-      const fx = gF * ddx, fy = gF * ddy, fz = gF * ddz;
-      sAx = f64x2.sub(sAx, f64x2.replace_lane(f64x2.splat(0), 0, mj * fx));
-      sAy = f64x2.sub(sAy, f64x2.replace_lane(f64x2.splat(0), 0, mj * fy));
-      sAz = f64x2.sub(sAz, f64x2.replace_lane(f64x2.splat(0), 0, mj * fz));
-      sPp = f64x2.add(sPp, f64x2.replace_lane(f64x2.splat(0), 0, mj * gP));
-      if (symmetric) {
-        store<f64>(ax + jo, load<f64>(ax + jo) + mi * fx);
-        store<f64>(ay + jo, load<f64>(ay + jo) + mi * fy);
-        store<f64>(az + jo, load<f64>(az + jo) + mi * fz);
-        store<f64>(ph + jo, load<f64>(ph + jo) + mi * gP);
-      }
-    }
-  }
   vAx = f64x2.add(vAx, sAx);
   vAy = f64x2.add(vAy, sAy);
   vAz = f64x2.add(vAz, sAz);
@@ -206,56 +190,93 @@ let vPp: v128 = f64x2.splat(0);
   return f64x2.extract_lane(v, 0) + f64x2.extract_lane(v, 1);
 }
 
-// Squared distance from a point to the box [bx, bx+wx]×[by, by+wy]×[bz, bz+wz].
-@inline function boxDistance2(x: f64, y: f64, z: f64, bx: f64, by: f64, bz: f64, wx: f64, wy: f64, wz: f64): f64 {
-  const dx = max(0.0, max(bx - x, x - bx - wx));
-  const dy = max(0.0, max(by - y, y - by - wy));
-  const dz = max(0.0, max(bz - z, z - bz - wz));
-  return dx * dx + dy * dy + dz * dz;
+// Squared distance from a coordinate to the interval [b, b+w].
+@inline function gap2(x: f64, b: f64, w: f64): f64 {
+  const d = max(0.0, max(b - x, x - b - w));
+  return d * d;
 }
 
 @inline function floorDiv(a: i32, b: i32): i32 {
   return <i32>Math.floor(<f64>a / <f64>b);
 }
 
+// Widening (in cells) of a particle's z reach: cells are found by floor(z/w) in the sort and from z ± reach
+// here; the margin keeps a rounding of either from dropping a cell that holds a pair inside the loop radius.
+const REACH_MARGIN: f64 = 1e-9;
+
+/**
+ * Pair terms of particle slot i (position x, y, z) with one stencil column: the cells (ix, iy, iz') of the
+ * unwrapped grid for iz' in [lo, hi], cut into runs by periodic image (cells of one column are consecutive
+ * in the sorted order, so each image's cells form one run of sources). ix, iy are unwrapped; shifts follow.
+ * `fromNext`: in the image holding cell `own`, the run starts after i (the half stencil's own column).
+ */
+@inline function columnRuns(
+  i: i32, x: f64, y: f64, z: f64, mi: f64, ix: i32, iy: i32, lo: i32, hi: i32, own: i32, symmetric: bool, fromNext: bool, checkSkip: bool,
+  nx: i32, ny: i32, nz: i32, lx: f64, ly: f64, lz: f64, start: usize,
+  xs: usize, ys: usize, zs: usize, ms: usize, ax: usize, ay: usize, az: usize, ph: usize,
+): void {
+  const soft = gRs2 > 0;
+  let px = x, py = y;
+  if (ix < 0 || ix >= nx) { const f = floorDiv(ix, nx); ix -= f * nx; px -= <f64>f * lx; }
+  if (iy < 0 || iy >= ny) { const f = floorDiv(iy, ny); iy -= f * ny; py -= <f64>f * ly; }
+  const base = start + (<usize>((ix * ny + iy) * nz) << 2);
+  let k = floorDiv(lo, nz);
+  while (lo <= hi) {
+    const kz = k * nz;
+    const top = min(hi, kz + nz - 1);
+    let j0 = load<i32>(base + (<usize>(lo - kz) << 2));
+    const j1 = load<i32>(base + (<usize>(top - kz + 1) << 2));
+    const pz = z - <f64>k * lz;
+    const home = own >= lo && own <= top;
+    if (fromNext && home) j0 = i + 1;
+    if (j0 < j1) {
+      if (checkSkip && home) pairRun(px, py, pz, mi, symmetric, true, true, j0, j1, i, xs, ys, zs, ms, ax, ay, az, ph);
+      else if (soft) pairRun(px, py, pz, mi, symmetric, true, false, j0, j1, -1, xs, ys, zs, ms, ax, ay, az, ph);
+      else pairRun(px, py, pz, mi, symmetric, false, false, j0, j1, -1, xs, ys, zs, ms, ax, ay, az, ph);
+    }
+    lo = top + 1;
+    k++;
+  }
+}
+
 /**
  * All particles, each pair once (half stencil): cells [cellBegin, cellEnd) of an nx×ny×nz grid;
- * start: i32 cell offsets (nCells+1); stencil: 3 i32 per offset, the first halfCount of which are used.
+ * start: i32 cell offsets (nCells+1); columns: 4 i32 per stencil column (ox, oy, ozLow, ozHigh), the half
+ * stencil's (cellColumns in engine/ewald/cellList.ts), the own column (0,0) first with ozLow = 0.
+ * Each particle meets a column in one run per periodic image, over the cells its loop sphere reaches.
  * Adds into the SoA sorted accumulators ax, ay, az, ph.
  */
 export function realSpaceAll(
   cellBegin: i32, cellEnd: i32, nx: i32, ny: i32, nz: i32, lx: f64, ly: f64, lz: f64,
-  wx: f64, wy: f64, wz: f64, start: usize, stencil: usize, halfCount: i32,
+  wx: f64, wy: f64, wz: f64, start: usize, columns: usize, nColumns: i32,
   xs: usize, ys: usize, zs: usize, ms: usize, ax: usize, ay: usize, az: usize, ph: usize,
 ): void {
-  const soft = gRs2 > 0;
+  const rl2 = gRl2;
+  const izw = 1.0 / wz;
   for (let cell0 = cellBegin; cell0 < cellEnd; cell0++) {
     const i0 = load<i32>(start + (<usize>cell0 << 2)), i1 = load<i32>(start + (<usize>cell0 << 2), 4);
     if (i0 == i1) continue;
     const cz = cell0 % nz;
     const cy = ((cell0 - cz) / nz) % ny;
     const cx = (cell0 - cz - cy * nz) / (ny * nz);
-    for (let q = 0; q < halfCount; q++) {
-      const so = stencil + <usize>(12 * q);
-      let ix = cx + load<i32>(so), iy = cy + load<i32>(so, 4), iz = cz + load<i32>(so, 8);
-      // Neighbour cell's lower corner in the unwrapped frame (for per-particle pruning).
-      const bx = <f64>ix * wx, by = <f64>iy * wy, bz = <f64>iz * wz;
-      let sx: f64 = 0, sy: f64 = 0, sz: f64 = 0;
-      if (ix < 0 || ix >= nx) { const f = floorDiv(ix, nx); ix -= f * nx; sx = <f64>f * lx; }
-      if (iy < 0 || iy >= ny) { const f = floorDiv(iy, ny); iy -= f * ny; sy = <f64>f * ly; }
-      if (iz < 0 || iz >= nz) { const f = floorDiv(iz, nz); iz -= f * nz; sz = <f64>f * lz; }
-      const cell = (ix * ny + iy) * nz + iz;
-      const j0 = load<i32>(start + (<usize>cell << 2)), j1 = load<i32>(start + (<usize>cell << 2), 4);
-      if (j0 == j1) continue;
+    for (let q = 0; q < nColumns; q++) {
+      const co = columns + <usize>(16 * q);
+      const ix = cx + load<i32>(co), iy = cy + load<i32>(co, 4);
+      const zLow = cz + load<i32>(co, 8), zHigh = cz + load<i32>(co, 12);
+      const own = q == 0;
+      // Column's lower corner in the unwrapped frame (for per-particle pruning).
+      const bx = <f64>ix * wx, by = <f64>iy * wy;
       for (let i = i0; i < i1; i++) {
         const io = <usize>i << 3;
-        if (q != 0 && boxDistance2(load<f64>(xs + io), load<f64>(ys + io), load<f64>(zs + io), bx, by, bz, wx, wy, wz) >= gRl2) continue;
-        const mi = load<f64>(ms + io);
+        const x = load<f64>(xs + io), y = load<f64>(ys + io), z = load<f64>(zs + io);
+        const d2 = own ? 0.0 : gap2(x, bx, wx) + gap2(y, by, wy);
+        if (d2 >= rl2) continue;
+        const reach = Math.sqrt(rl2 - d2);
+        const lo = own ? cz : <i32>max(<f64>zLow, Math.floor((z - reach) * izw - REACH_MARGIN));
+        const hi = <i32>min(<f64>zHigh, Math.floor((z + reach) * izw + REACH_MARGIN));
+        if (lo > hi) continue;
         vAx = f64x2.splat(0); vAy = f64x2.splat(0); vAz = f64x2.splat(0); vPp = f64x2.splat(0);
-        const px = load<f64>(xs + io) - sx, py = load<f64>(ys + io) - sy, pz = load<f64>(zs + io) - sz;
-        const js = q == 0 ? i + 1 : j0;
-        if (soft) pairRun(px, py, pz, mi, true, true, false, js, j1, -1, xs, ys, zs, ms, ax, ay, az, ph);
-        else pairRun(px, py, pz, mi, true, false, false, js, j1, -1, xs, ys, zs, ms, ax, ay, az, ph);
+        columnRuns(i, x, y, z, load<f64>(ms + io), ix, iy, lo, hi, cz, true, own, false, nx, ny, nz, lx, ly, lz, start, xs, ys, zs, ms, ax, ay, az, ph);
         store<f64>(ax + io, load<f64>(ax + io) + hsum(vAx));
         store<f64>(ay + io, load<f64>(ay + io) + hsum(vAy));
         store<f64>(az + io, load<f64>(az + io) + hsum(vAz));
@@ -267,14 +288,16 @@ export function realSpaceAll(
 
 /**
  * Per-target real-space sums (full stencil): targets are sorted slots tslot[begin..end) with wrapped
- * positions; writes (adds) acc[3(t−begin)..] and phi[t−begin] (AoS, chunk-relative).
+ * positions; columns: the full stencil's (4 i32 each, as realSpaceAll). Writes (adds) acc[3(t−begin)..] and
+ * phi[t−begin] (AoS, chunk-relative).
  */
 export function realSpaceTargets(
   tslot: usize, begin: i32, end: i32, nx: i32, ny: i32, nz: i32, lx: f64, ly: f64, lz: f64,
-  wx: f64, wy: f64, wz: f64, start: usize, stencil: usize, nStencil: i32,
+  wx: f64, wy: f64, wz: f64, start: usize, columns: usize, nColumns: i32,
   xs: usize, ys: usize, zs: usize, ms: usize, acc: usize, phi: usize,
 ): void {
-  const soft = gRs2 > 0;
+  const rl2 = gRl2;
+  const izw = 1.0 / wz;
   for (let t = begin; t < end; t++) {
     const si = load<i32>(tslot + (<usize>t << 2));
     const io = <usize>si << 3;
@@ -287,20 +310,18 @@ export function realSpaceTargets(
     if (cy < 0) cy = 0;
     if (cz < 0) cz = 0;
     vAx = f64x2.splat(0); vAy = f64x2.splat(0); vAz = f64x2.splat(0); vPp = f64x2.splat(0);
-    for (let q = 0; q < nStencil; q++) {
-      const so = stencil + <usize>(12 * q);
-      let ix = cx + load<i32>(so), iy = cy + load<i32>(so, 4), iz = cz + load<i32>(so, 8);
-      if (q != 0 && boxDistance2(x, y, z, <f64>ix * wx, <f64>iy * wy, <f64>iz * wz, wx, wy, wz) >= gRl2) continue;
-      let px = x, py = y, pz = z;
-      if (ix < 0 || ix >= nx) { const f = floorDiv(ix, nx); ix -= f * nx; px -= <f64>f * lx; }
-      if (iy < 0 || iy >= ny) { const f = floorDiv(iy, ny); iy -= f * ny; py -= <f64>f * ly; }
-      if (iz < 0 || iz >= nz) { const f = floorDiv(iz, nz); iz -= f * nz; pz -= <f64>f * lz; }
-      const cell = (ix * ny + iy) * nz + iz;
-      const j0 = load<i32>(start + (<usize>cell << 2)), j1 = load<i32>(start + (<usize>cell << 2), 4);
-      if (j0 == j1) continue;
-      if (q == 0) pairRun(px, py, pz, 0, false, true, true, j0, j1, si, xs, ys, zs, ms, 0, 0, 0, 0);
-      else if (soft) pairRun(px, py, pz, 0, false, true, false, j0, j1, -1, xs, ys, zs, ms, 0, 0, 0, 0);
-      else pairRun(px, py, pz, 0, false, false, false, j0, j1, -1, xs, ys, zs, ms, 0, 0, 0, 0);
+    for (let q = 0; q < nColumns; q++) {
+      const co = columns + <usize>(16 * q);
+      const ix = cx + load<i32>(co), iy = cy + load<i32>(co, 4);
+      const d2 = gap2(x, <f64>ix * wx, wx) + gap2(y, <f64>iy * wy, wy);
+      if (d2 >= rl2) continue;
+      const reach = Math.sqrt(rl2 - d2);
+      const lo = <i32>max(<f64>(cz + load<i32>(co, 8)), Math.floor((z - reach) * izw - REACH_MARGIN));
+      const hi = <i32>min(<f64>(cz + load<i32>(co, 12)), Math.floor((z + reach) * izw + REACH_MARGIN));
+      if (lo > hi) continue;
+      // The target's own cell (zero shift) is met in the column (0, 0); its own slot is skipped there.
+      const own = load<i32>(co) == 0 && load<i32>(co, 4) == 0 ? cz : -0x7fffffff;
+      columnRuns(si, x, y, z, 0, ix, iy, lo, hi, own, false, false, true, nx, ny, nz, lx, ly, lz, start, xs, ys, zs, ms, 0, 0, 0, 0);
     }
     const a = acc + <usize>(24 * (t - begin));
     store<f64>(a, load<f64>(a) + hsum(vAx));
