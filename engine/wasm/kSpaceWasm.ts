@@ -1,7 +1,8 @@
 /**
- * The Fourier-space kernels of kSpace.ts run in WebAssembly (SIMD): same definitions, same order of
- * summation per k-column, so results agree with the JavaScript twin to rounding. One context per setup
- * (per thread): positions, masses and the k-columns are copied into the instance's memory once.
+ * The Fourier-space kernels of kSpace.ts run in WebAssembly (SIMD): same definitions, same k-vectors, the
+ * k-vectors ±hz of a column taken together (as/kspace.ts), so results agree with the JavaScript twin to
+ * rounding. One context per setup (per thread): positions, masses and the k-columns are copied into the
+ * instance's memory once; sums come in and go out in the twin's layout (interleaved re, im per k-vector).
  */
 import { type Box } from '../box';
 import { type KSpace } from '../ewald/kSpace';
@@ -28,13 +29,24 @@ export function kSpaceWasmCreate(ks: KSpace, box: Box, positions: Float64Array, 
   const [Hx, Hy, Hz] = ks.hMax;
   const pPos = arena.alloc(8 * 3 * n);
   const pMass = arena.alloc(8 * n);
-  const pCols = [ks.colHx, ks.colHy, ks.colHz0, ks.colHz1, ks.colK0].map((col) => {
+  // Slots of h ≥ 0 per column for the ±hz pairs (kspace.ts): first and last h, first slot (even).
+  const colH0 = new Int32Array(nCol), colH1 = new Int32Array(nCol), colSlot = new Int32Array(nCol);
+  let nSlots = 0;
+  for (let c = 0; c < nCol; c++) {
+    const hz0 = ks.colHz0[c], hz1 = ks.colHz1[c];
+    colH0[c] = hz0 > 0 ? hz0 : hz1 < 0 ? -hz1 : 0;
+    colH1[c] = Math.max(hz1, -hz0);
+    colSlot[c] = nSlots;
+    nSlots += (colH1[c] - colH0[c] + 2) & ~1;
+  }
+  const table = (col: Int32Array): number => {
     const p = arena.alloc(4 * nCol);
     arena.i32(p, nCol).set(col);
     return p;
-  });
-  const pSr = arena.alloc(8 * nk + 16);
-  const pSi = arena.alloc(8 * nk + 16);
+  };
+  const [pHx, pHy, pHz0, pHz1, pK0, pH0, pH1, pSlot] = [ks.colHx, ks.colHy, ks.colHz0, ks.colHz1, ks.colK0, colH0, colH1, colSlot].map(table);
+  const pSums = arena.alloc(32 * nSlots + 64); // U, V, X, Y per slot
+  const pWeights = arena.alloc(64 * nSlots + 128); // P, Q, R, S, hP, hQ, hR, hS per slot
   // Phase tables of two particles (the structure factor takes particles in pairs).
   const scratch = arena.alloc(2 * (16 * (Hx + 3 + 2 * Hy + 3 + 2 * Hz + 3) + 16) + 64);
   arena.f64(pPos, 3 * n).set(positions);
@@ -52,22 +64,21 @@ export function kSpaceWasmCreate(ks: KSpace, box: Box, positions: Float64Array, 
   };
   return {
     structureFactor(begin, end, s) {
-      arena.f64(pSr, nk).fill(0);
-      arena.f64(pSi, nk).fill(0);
+      arena.f64(pSums, 4 * nSlots).fill(0);
       // Many short calls rather than one long one: engines tier a wasm function up to optimised code
       // between calls, not inside one.
       for (let b = begin; b < end; b += CALL_PARTICLES) {
-        k.structureFactor(pPos, pMass, b, Math.min(end, b + CALL_PARTICLES), nCol, ...pCols, Hx, Hy, Hz, tx, ty, tz, pSr, pSi, scratch);
+        glue.structurePaired(pPos, pMass, b, Math.min(end, b + CALL_PARTICLES), nCol, pHx, pHy, pH0, pH1, pSlot, Hx, Hy, Hz, tx, ty, tz, pSums, scratch);
       }
       staging().set(s.subarray(0, 2 * nk));
-      glue.addInterleaved(pSr, pSi, nk, pS2);
+      glue.structurePairedAdd(nCol, pH0, pH1, pSlot, pHz0, pHz1, pK0, pSums, pS2);
       s.set(staging());
       weightedRef = null;
     },
     targets(ws, targets, begin, end, acc, phi) {
       if (weightedRef !== ws) {
         staging().set(ws.subarray(0, 2 * nk));
-        glue.deinterleave2(pS2, nk, pSr, pSi);
+        glue.fourierPairedLoad(nCol, pH0, pH1, pSlot, pHz0, pHz1, pK0, pS2, pWeights, nSlots);
         weightedRef = ws;
       }
       if (targetsRef !== targets) {
@@ -87,7 +98,7 @@ export function kSpaceWasmCreate(ks: KSpace, box: Box, positions: Float64Array, 
       // The kernel indexes acc by t; shift the base so that t = begin lands at the chunk's start.
       for (let b = begin; b < end; b += CALL_PARTICLES) {
         const e = Math.min(end, b + CALL_PARTICLES);
-        k.fourierTargets(pPos, pTargets, b, e, nCol, ...pCols, Hx, Hy, Hz, tx, ty, tz, pSr, pSi, pAcc - 24 * begin, pPhi - 8 * begin, scratch);
+        glue.fourierPaired(pPos, pTargets, b, e, nCol, pHx, pHy, pH0, pH1, pSlot, Hx, Hy, Hz, tx, ty, tz, pWeights, pAcc - 24 * begin, pPhi - 8 * begin, scratch);
       }
       acc.set(arena.f64(pAcc, 3 * m), 3 * begin);
       phi.set(arena.f64(pPhi, m), begin);

@@ -13,8 +13,8 @@ import { base64Bytes } from '../util/base64';
 
 export interface KernelExports {
   memory: WebAssembly.Memory;
-  structureFactor: (...args: number[]) => void;
-  fourierTargets: (...args: number[]) => void;
+  structurePaired: (...args: number[]) => void;
+  fourierPaired: (...args: number[]) => void;
 }
 
 /** Which build of the kernels a thread runs. */

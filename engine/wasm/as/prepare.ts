@@ -128,24 +128,6 @@ export function deinterleave4(src: usize, n: i32, d0: usize, d1: usize, d2: usiz
 // Glue between the kernels' layouts and the callers' arrays (callers copy their arrays in and out with
 // typed-array set, so that no JavaScript loop touches the elements one by one).
 
-/** dst (2·nk f64, interleaved re, im) += (sr, si). */
-export function addInterleaved(sr: usize, si: usize, nk: i32, dst: usize): void {
-  for (let q = 0; q < nk; q++) {
-    const d = dst + (<usize>q << 4), o = <usize>q << 3;
-    store<f64>(d, load<f64>(d) + load<f64>(sr + o));
-    store<f64>(d, load<f64>(d, 8) + load<f64>(si + o), 8);
-  }
-}
-
-/** Splits nk interleaved pairs at src into d0 (re) and d1 (im). */
-export function deinterleave2(src: usize, nk: i32, d0: usize, d1: usize): void {
-  for (let q = 0; q < nk; q++) {
-    const s = src + (<usize>q << 4), o = <usize>q << 3;
-    store<f64>(d0 + o, load<f64>(s));
-    store<f64>(d1 + o, load<f64>(s, 8));
-  }
-}
-
 /**
  * Adds sorted-order SoA sums (ax, ay, az, ph; n each) into input order: acc[3·order[s] + d] += a_d[s],
  * phi[order[s]] += ph[s] (acc 3n f64, phi n f64, order n i32).

@@ -2,7 +2,10 @@
  * The WebAssembly Fourier kernels against their JavaScript twins (engine/ewald/kSpace.ts), piece by
  * piece: the structure factor over source ranges of odd and even length (the kernel takes particles in
  * pairs) and the evaluation at every particle. Independent derivation: the twins are separate codes for
- * the same sums, so agreement to round-off checks both (a sum of O(N) unit terms: 1e-13 of its scale).
+ * the same sums, one k-vector at a time, while the kernels take the k-vectors ±hz of a column together,
+ * so agreement to round-off checks both (a sum of O(N) unit terms: 1e-13 of its scale). Besides the
+ * default setup: a box so thin in z that only hz = 0 exists (one slot per column, padded), and a cutoff so
+ * short that the k-vectors are a handful of columns, the (0, 0) column (hz > 0 only) among them.
  */
 import { describe, expect, it } from 'vitest';
 import { ewaldSetup, ewaldStructureFactor, ewaldWeighStructureFactor, ewaldFourierChunk } from '../../../engine/ewald/ewald';
@@ -11,7 +14,12 @@ import { kernelModule } from '../../../engine/wasm/module';
 import { snapshotClustered } from '../../helpers/snapshots';
 
 const s = snapshotClustered(301, 5, [1, 1.3, 0.8]);
-const setup = ewaldSetup(s.positions, s.masses, s.box, { tol: 1e-8 });
+const thin = snapshotClustered(301, 6, [1, 1.2, 0.05]);
+const setups = [
+  ['clustered, 1 × 1.3 × 0.8 box, tol 1e-8', ewaldSetup(s.positions, s.masses, s.box, { tol: 1e-8 })],
+  ['thin 1 × 1.2 × 0.05 box, k_c below 2π/L_z (hz = 0 only)', ewaldSetup(thin.positions, thin.masses, thin.box, { alpha: 8, rCut: 0.6, kCut: 60 })],
+  ['k_c = 1.5·2π/L: a handful of columns', ewaldSetup(s.positions, s.masses, s.box, { alpha: 3, rCut: 1.5, kCut: 1.5 * 2 * Math.PI })],
+] as const;
 
 function maxAbs(a: Float64Array): number {
   let m = 0;
@@ -19,8 +27,13 @@ function maxAbs(a: Float64Array): number {
   return m;
 }
 
-describe('WebAssembly Fourier kernels = JavaScript twins', () => {
+describe.each(setups)('WebAssembly Fourier kernels = JavaScript twins (%s)', (_name, setup) => {
   it('runs on the WebAssembly path here', () => expect(kernelModule()).not.toBeNull());
+
+  it('has the k-vectors the case is about', () => {
+    expect(setup.kspace.count).toBeGreaterThan(0);
+    if (setup.box.lz < 0.1) expect(setup.kspace.hMax[2]).toBe(0);
+  });
 
   it('structure factor over [0, 7), [7, 301), [0, 301), [3, 4): equal to the twin to 1e-13 of max|S|', () => {
     for (const [b, e] of [[0, 7], [7, 301], [0, 301], [3, 4], [10, 10]]) {
