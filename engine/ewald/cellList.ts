@@ -66,21 +66,23 @@ export function cellStencil(w: [number, number, number], rCut: number): { offset
  * reach in z shrinks monotonically away from the centre).
  */
 export function cellColumns(stencil: Int32Array, first: number, end: number): Int32Array {
-  const index = new Map<string, number>();
+  let reach = 0;
+  for (let q = first; q < end; q++) reach = Math.max(reach, Math.abs(stencil[3 * q]), Math.abs(stencil[3 * q + 1]));
+  const side = 2 * reach + 1;
+  const index = new Int32Array(side * side).fill(-1); // column number of (ox, oy)
   const cols: number[] = [];
   const counts: number[] = [];
   for (let q = first; q < end; q++) {
     const ox = stencil[3 * q], oy = stencil[3 * q + 1], oz = stencil[3 * q + 2];
-    const key = `${ox},${oy}`;
-    let c = index.get(key);
-    if (c === undefined) {
-      c = counts.length;
-      index.set(key, c);
+    const key = (ox + reach) * side + oy + reach;
+    let c = index[key];
+    if (c < 0) {
+      c = index[key] = counts.length;
       cols.push(ox, oy, oz, oz);
       counts.push(0);
     }
-    cols[4 * c + 2] = Math.min(cols[4 * c + 2], oz);
-    cols[4 * c + 3] = Math.max(cols[4 * c + 3], oz);
+    if (oz < cols[4 * c + 2]) cols[4 * c + 2] = oz;
+    if (oz > cols[4 * c + 3]) cols[4 * c + 3] = oz;
     counts[c]++;
   }
   for (let c = 0; c < counts.length; c++) {

@@ -214,7 +214,8 @@ export function ewaldSetupBuild(chosen: EwaldChosen, options: EwaldOptions = {},
  * refinement's tighter tolerance): new α, r_c, k_c, k-vectors and kernel table, but `base`'s validated,
  * wrapped positions and sorted particles; the cell grid stays and only its stencil is remade for the new
  * cutoff (the stencil is valid for any cutoff). No pass over the particles but the parameter choice's
- * sums over the masses.
+ * sums over the masses, and no copy of them: the base's WebAssembly contexts, where it has made them,
+ * make the new ones inside their own instances.
  */
 export function ewaldSetupRefine(base: EwaldSetup, options: EwaldOptions, targetCount: number): EwaldSetup {
   const chosen = ewaldParamsChoose(base.positions, base.masses, base.box, options, targetCount, base.params.clustering);
@@ -224,6 +225,7 @@ export function ewaldSetupRefine(base: EwaldSetup, options: EwaldOptions, target
   const cells: CellList = { ...base.cells, stencil: offsets, halfCount };
   const params: EwaldParams = { ...chosen, hMax: kspace.hMax, kVectors: kspace.count, cells: base.params.cells, stencilCells: offsets.length / 3 };
   const table = kernelTableBuild(params.alpha * params.alpha * params.rCut * params.rCut);
+  const kernel: RealSpaceKernel = { alpha: params.alpha, rCut: params.rCut, rSoft: params.rSoft, softening: params.softening, table };
   return {
     box: base.box,
     positions: base.positions,
@@ -233,7 +235,10 @@ export function ewaldSetupRefine(base: EwaldSetup, options: EwaldOptions, target
     kspace,
     totalMass: base.totalMass,
     cells,
-    kernel: { alpha: params.alpha, rCut: params.rCut, rSoft: params.rSoft, softening: params.softening, table },
+    kernel,
+    // The base's WebAssembly contexts, where it made them, lend their instances (particles already inside).
+    ...(base.rWasm ? { rWasm: base.rWasm.derive(cells, kernel) } : {}),
+    ...(base.kWasm ? { kWasm: base.kWasm.derive(kspace) } : {}),
   };
 }
 

@@ -13,6 +13,17 @@ export interface KSpaceWasm {
   structureFactor(begin: number, end: number, s: Float64Array): void;
   /** Adds the Fourier raw sums of targets[begin..end) into acc[3t..], phi[t] (ws from kSpaceWeigh). */
   targets(ws: Float64Array, targets: Int32Array, begin: number, end: number, acc: Float64Array, phi: Float64Array): void;
+  /** A context for the same particles and box under other k-vectors, inside this context's instance. */
+  derive(ks: KSpace): KSpaceWasm;
+}
+
+/** What contexts over one instance share: the instance, its memory, the particles. */
+interface KSpaceBase {
+  k: NonNullable<ReturnType<typeof kernelInstance>>;
+  arena: WasmArena;
+  n: number;
+  pPos: number;
+  pMass: number;
 }
 
 /** Particles (or targets) per kernel call. */
@@ -24,11 +35,18 @@ export function kSpaceWasmCreate(ks: KSpace, box: Box, positions: Float64Array, 
   if (!k) return null;
   const arena = new WasmArena(k);
   const n = masses.length;
+  const pPos = arena.alloc(8 * 3 * n);
+  const pMass = arena.alloc(8 * n);
+  arena.f64(pPos, 3 * n).set(positions);
+  arena.f64(pMass, n).set(masses);
+  return contextMake({ k, arena, n, pPos, pMass }, ks, box);
+}
+
+function contextMake(base: KSpaceBase, ks: KSpace, box: Box): KSpaceWasm {
+  const { k, arena, pPos, pMass } = base;
   const nCol = ks.colHx.length;
   const nk = ks.count;
   const [Hx, Hy, Hz] = ks.hMax;
-  const pPos = arena.alloc(8 * 3 * n);
-  const pMass = arena.alloc(8 * n);
   // Slots of h ≥ 0 per column for the ±hz pairs (kspace.ts): first and last h, first slot (even).
   const colH0 = new Int32Array(nCol), colH1 = new Int32Array(nCol), colSlot = new Int32Array(nCol);
   let nSlots = 0;
@@ -46,11 +64,9 @@ export function kSpaceWasmCreate(ks: KSpace, box: Box, positions: Float64Array, 
   };
   const [pHx, pHy, pHz0, pHz1, pK0, pH0, pH1, pSlot] = [ks.colHx, ks.colHy, ks.colHz0, ks.colHz1, ks.colK0, colH0, colH1, colSlot].map(table);
   const pSums = arena.alloc(32 * nSlots + 64); // U, V, X, Y per slot
-  const pWeights = arena.alloc(64 * nSlots + 128); // P, Q, R, S, hP, hQ, hR, hS per slot
+  const pWeights = arena.alloc(32 * nSlots + 64); // P, Q, R, S per slot
   // Phase tables of two particles (the structure factor takes particles in pairs).
   const scratch = arena.alloc(2 * (16 * (Hx + 3 + 2 * Hy + 3 + 2 * Hz + 3) + 16) + 64);
-  arena.f64(pPos, 3 * n).set(positions);
-  arena.f64(pMass, n).set(masses);
   const tx = (2 * Math.PI) / box.lx, ty = (2 * Math.PI) / box.ly, tz = (2 * Math.PI) / box.lz;
   let pTargets = 0, targetsRef: Int32Array | null = null;
   let pAcc = 0, pPhi = 0, chunkCap = 0;
@@ -102,6 +118,9 @@ export function kSpaceWasmCreate(ks: KSpace, box: Box, positions: Float64Array, 
       }
       acc.set(arena.f64(pAcc, 3 * m), 3 * begin);
       phi.set(arena.f64(pPhi, m), begin);
+    },
+    derive(ks2) {
+      return contextMake(base, ks2, box);
     },
   };
 }

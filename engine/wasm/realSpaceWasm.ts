@@ -24,9 +24,26 @@ export interface RealSpaceWasm {
   allFinalize(acc: Float64Array, phi: Float64Array, parts: readonly { acc: Float64Array; phi: Float64Array }[], G: number, selfCoef: number, background: number): void;
   /** Per-target sums for targets[begin..end) (input rows), added into acc[3t..], phi[t]. */
   targets(targets: Int32Array, begin: number, end: number, acc: Float64Array, phi: Float64Array): void;
+  /**
+   * A context for the same sorted particles and cell grid (`cells` differs from this context's only in its
+   * stencil) under another kernel, inside this context's instance: no new memory for the particles.
+   */
+  derive(cells: CellList, k: RealSpaceKernel): RealSpaceWasm;
+}
+
+/** What contexts over one instance share: the instance, its memory, the SoA particles and accumulators. */
+interface RealSpaceBase {
+  x: Record<string, (...a: number[]) => void>;
+  arena: WasmArena;
+  n: number;
+  soa: number[];
+  acc: number[];
+  pStart: number;
 }
 
 const SOFT_KIND = { none: 0, plummer: 1, spline: 2 } as const;
+/** Bytes after each SoA array: an odd run's masked second lane reads (and writes back) one slot past the end. */
+const PAD = 16;
 /** Particles (about) per kernel call. */
 const CALL_PARTICLES = 128;
 
@@ -38,9 +55,8 @@ export function realSpaceWasmCreate(cells: CellList, box: Box, k: RealSpaceKerne
   const arena = new WasmArena(w);
   const n = cells.order.length;
   const nCells = cells.start.length - 1;
-  const pad = 16;
-  const soa = [0, 1, 2, 3].map(() => arena.alloc(8 * n + pad));
-  const acc = [0, 1, 2, 3].map(() => arena.alloc(8 * n + pad));
+  const soa = [0, 1, 2, 3].map(() => arena.alloc(8 * n + PAD));
+  const acc = [0, 1, 2, 3].map(() => arena.alloc(8 * n + PAD));
   // The sorted particles split into SoA arrays inside the instance, through the accumulators' (contiguous,
   // still unused) memory, which is zeroed again afterwards.
   arena.f64(acc[0], 4 * n).set(cells.xyzm);
@@ -48,6 +64,13 @@ export function realSpaceWasmCreate(cells: CellList, box: Box, k: RealSpaceKerne
   arena.f64(acc[0], 4 * n).fill(0);
   const pStart = arena.alloc(4 * (nCells + 1));
   arena.i32(pStart, nCells + 1).set(cells.start);
+  return contextMake({ x, arena, n, soa, acc, pStart }, cells, box, k);
+}
+
+function contextMake(base: RealSpaceBase, cells: CellList, box: Box, k: RealSpaceKernel): RealSpaceWasm {
+  const { x, arena, n, soa, acc, pStart } = base;
+  const nCells = cells.start.length - 1;
+  const pad = PAD;
   // Stencil columns: the half stencil's (own column first) for the all-particle loop, the full one's for targets.
   const columns = (first: number, end: number): [number, number] => {
     const c = cellColumns(cells.stencil, first, end);
@@ -157,6 +180,9 @@ export function realSpaceWasmCreate(cells: CellList, box: Box, k: RealSpaceKerne
         out[3 * (begin + t) + 2] += a[3 * t + 2];
         phi[begin + t] += p[t];
       }
+    },
+    derive(cells2, k2) {
+      return contextMake(base, cells2, box, k2);
     },
   };
 }

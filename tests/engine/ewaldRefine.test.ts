@@ -6,7 +6,16 @@
  * grid), and against a tol = 1e-13 evaluation (the tolerance promise), on both kernel paths.
  */
 import { expect, it } from 'vitest';
-import { ewaldForces, ewaldSetup, ewaldSetupRefine, ewaldTargetsRun } from '../../engine/ewald/ewald';
+import {
+  ewaldAllRealChunk,
+  ewaldAllRealCollect,
+  ewaldCellCount,
+  ewaldForces,
+  ewaldSetup,
+  ewaldSetupRefine,
+  ewaldStructureFactor,
+  ewaldTargetsRun,
+} from '../../engine/ewald/ewald';
 import type { EwaldOptions } from '../../engine/ewald/params';
 import { describeKernelPaths } from '../helpers/kernelPaths';
 import { snapshotClustered, snapshotUniform } from '../helpers/snapshots';
@@ -20,7 +29,7 @@ const cases = [
   ['clustered, spline softening h = 0.01', snapshotClustered(2000, 6, RECT), { softening: { kind: 'spline', h: 0.01 } }],
 ] as const;
 
-describeKernelPaths('ewaldSetupRefine', () => {
+describeKernelPaths('ewaldSetupRefine', (path) => {
   for (const [name, s, extra] of cases) {
     it(`few targets at a tighter tolerance on the run's own cell list equal a fresh setup's, ${name}`, () => {
       const base = ewaldSetup(s.positions, s.masses, s.box, { tol: 1e-5, ...(extra as EwaldOptions) });
@@ -40,6 +49,27 @@ describeKernelPaths('ewaldSetupRefine', () => {
       expect(maxScalarErrorOverRms(r.phi, fresh.phi)).toBeLessThan(1e-12);
       const ref = ewaldForces(s.positions, s.masses, s.box, ROWS, { ...options, tol: 1e-13 }, undefined, false);
       expect(maxVectorRelativeError(r.acc, ref.acc)).toBeLessThan(1e-9);
+    });
+
+    it(`after a finished run, made inside the run's WebAssembly contexts: the same bits, the run's sums untouched, ${name}`, () => {
+      const opts = { tol: 1e-5, ...(extra as EwaldOptions) };
+      const options: EwaldOptions = { tol: 1e-9, ...(extra as EwaldOptions) };
+      const base = ewaldSetup(s.positions, s.masses, s.box, opts);
+      ewaldStructureFactor(base);
+      ewaldAllRealChunk(base, 0, ewaldCellCount(base));
+      const refine = ewaldSetupRefine(base, options, ROWS.length);
+      // Where the kernels run in WebAssembly, the run made its contexts and the refinement derives its own.
+      expect(refine.rWasm === undefined).toBe(path.noWasm);
+      expect(refine.kWasm === undefined).toBe(path.noWasm);
+      const r = ewaldTargetsRun(refine, ROWS);
+      const alone = ewaldTargetsRun(ewaldSetupRefine(ewaldSetup(s.positions, s.masses, s.box, opts), options, ROWS.length), ROWS);
+      expect(Array.from(r.acc)).toEqual(Array.from(alone.acc));
+      expect(Array.from(r.phi)).toEqual(Array.from(alone.phi));
+      const other = ewaldSetup(s.positions, s.masses, s.box, opts);
+      ewaldAllRealChunk(other, 0, ewaldCellCount(other));
+      const mine = ewaldAllRealCollect(base), theirs = ewaldAllRealCollect(other);
+      expect(Array.from(mine.accSorted)).toEqual(Array.from(theirs.accSorted));
+      expect(Array.from(mine.phiSorted)).toEqual(Array.from(theirs.phiSorted));
     });
   }
 });
