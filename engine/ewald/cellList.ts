@@ -33,28 +33,50 @@ function cellOf(x: number, w: number, n: number): number {
 
 /**
  * Offsets o with min distance between cell 0 and cell o below rCut; ordered with (0,0,0) first, then the
- * lexicographically positive half, then their negatives.
+ * lexicographically positive half, then their negatives. The gap along z grows with |oz|, so each (ox, oy)
+ * keeps one range |oz| ≤ M: M is found from the same test per column, and the offsets are written in one
+ * pass into an array of the exact size (a refinement's cutoff beyond the box makes 10^4 offsets or more).
  */
 export function cellStencil(w: [number, number, number], rCut: number): { offsets: Int32Array; halfCount: number } {
   const reach = w.map((wd) => Math.ceil(rCut / wd)) as [number, number, number];
-  const positive: number[] = [];
   const r2 = rCut * rCut;
+  const nx = reach[0] + 1, ny = 2 * reach[1] + 1;
+  const top = new Int32Array(nx * ny).fill(-1); // M per (ox, oy) of the positive half; −1: none
+  let half = 0;
+  for (let ox = 0; ox <= reach[0]; ox++) {
+    const gx = Math.max(0, ox - 1) * w[0];
+    for (let oy = ox === 0 ? 0 : -reach[1]; oy <= reach[1]; oy++) {
+      const gy = Math.max(0, Math.abs(oy) - 1) * w[1];
+      const inside = (oz: number): boolean => {
+        const gz = Math.max(0, oz - 1) * w[2];
+        return gx * gx + gy * gy + gz * gz < r2;
+      };
+      if (!inside(0)) continue;
+      let m = Math.min(reach[2], Math.ceil(Math.sqrt(Math.max(0, r2 - gx * gx - gy * gy)) / w[2]));
+      while (m < reach[2] && inside(m + 1)) m++;
+      while (m > 0 && !inside(m)) m--;
+      if (ox === 0 && oy === 0 && m === 0) continue; // the zero offset is not in the positive half
+      top[ox * ny + oy + reach[1]] = m;
+      half += ox === 0 && oy === 0 ? m : 2 * m + 1;
+    }
+  }
+  const offsets = new Int32Array(3 * (1 + 2 * half));
+  let k = 3;
   for (let ox = 0; ox <= reach[0]; ox++) {
     for (let oy = -reach[1]; oy <= reach[1]; oy++) {
-      for (let oz = -reach[2]; oz <= reach[2]; oz++) {
-        const positiveHalf = ox > 0 || (ox === 0 && (oy > 0 || (oy === 0 && oz > 0)));
-        if (!positiveHalf) continue;
-        const gx = Math.max(0, Math.abs(ox) - 1) * w[0];
-        const gy = Math.max(0, Math.abs(oy) - 1) * w[1];
-        const gz = Math.max(0, Math.abs(oz) - 1) * w[2];
-        if (gx * gx + gy * gy + gz * gz < r2) positive.push(ox, oy, oz);
+      const m = top[ox * ny + oy + reach[1]];
+      if (m < 0) continue;
+      for (let oz = ox === 0 && oy === 0 ? 1 : -m; oz <= m; oz++) {
+        offsets[k] = ox;
+        offsets[k + 1] = oy;
+        offsets[k + 2] = oz;
+        offsets[k + 3 * half] = -ox;
+        offsets[k + 3 * half + 1] = -oy;
+        offsets[k + 3 * half + 2] = -oz;
+        k += 3;
       }
     }
   }
-  const half = positive.length / 3;
-  const offsets = new Int32Array(3 * (1 + 2 * half));
-  offsets.set(positive, 3);
-  for (let i = 0; i < positive.length; i++) offsets[3 + positive.length + i] = -positive[i];
   return { offsets, halfCount: 1 + half };
 }
 
