@@ -32,6 +32,11 @@ export interface PrepareWasm {
   particles(positions: Float64Array, masses: Float64Array, box: Box, grid: readonly [number, number, number], wrappedOut: Float64Array): ParticlesPrepared | null;
   /** The cell list of the last particles() call (as cellListBuild), its arrays shared when `shared`. */
   cellList(box: Box, n: readonly [number, number, number], rCut: number, shared: boolean): CellList;
+  /**
+   * Whether two wrapped positions of the last particles() call are exactly equal (a hash pass, O(N)):
+   * false rules out what cellListFindCoincident looks for; true means it will find a pair to name.
+   */
+  anyCoincident(): boolean;
 }
 
 /** A fresh context (one kernel instance), or null where the WebAssembly kernels are unavailable. */
@@ -76,6 +81,11 @@ export function prepareWasmCreate(): PrepareWasm | null {
       xyzm.set(arena.f64(pXyzm, 4 * count));
       const { offsets, halfCount } = cellStencil(w, rCut);
       return { n: [n[0], n[1], n[2]], w, xyzm, order, slot, start, stencil: offsets, halfCount };
+    },
+    anyCoincident() {
+      let size = 16;
+      while (size < 2 * count) size *= 2;
+      return x.positionsRepeat(pPos, count, arena.alloc(4 * size), size) === 1;
     },
   };
 }

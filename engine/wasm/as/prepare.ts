@@ -167,3 +167,33 @@ export function finalizeAll(acc: usize, phi: usize, ms: usize, order: usize, n: 
     store<f64>(p, -G * (load<f64>(p) - load<f64>(ms + (<usize>s << 3)) * selfCoef - background));
   }
 }
+
+/**
+ * Whether two of the n positions (3 f64 each at pos) are exactly equal, −0 counting as +0: one pass with
+ * open addressing (linear probing) on a table of `size` i32 slots (a power of two, at least 2n; filled
+ * here), comparing the coordinates whenever two positions meet in a slot's chain. Returns 1 or 0.
+ */
+export function positionsRepeat(pos: usize, n: i32, table: usize, size: i32): i32 {
+  memory.fill(table, 0xff, <usize>size << 2);
+  const mask = size - 1;
+  for (let i = 0; i < n; i++) {
+    const p = pos + <usize>(24 * i);
+    const x = load<f64>(p) + 0.0, y = load<f64>(p, 8) + 0.0, z = load<f64>(p, 16) + 0.0;
+    let h = reinterpret<u64>(x) * 0x9e3779b97f4a7c15;
+    h = (h ^ (h >> 29) ^ reinterpret<u64>(y)) * 0xc2b2ae3d27d4eb4f;
+    h = (h ^ (h >> 32) ^ reinterpret<u64>(z)) * 0x165667b19e3779f9;
+    let s = <i32>(h >> 40) & mask;
+    while (true) {
+      const o = table + (<usize>s << 2);
+      const j = load<i32>(o);
+      if (j < 0) {
+        store<i32>(o, i);
+        break;
+      }
+      const q = pos + <usize>(24 * j);
+      if (load<f64>(q) == x && load<f64>(q, 8) == y && load<f64>(q, 16) == z) return 1;
+      s = (s + 1) & mask;
+    }
+  }
+  return 0;
+}

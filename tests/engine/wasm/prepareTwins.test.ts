@@ -6,7 +6,8 @@
  * exactly L, many boxes away) and unequal masses; and the same error for a non-finite value.
  */
 import { afterEach, describe, expect, it } from 'vitest';
-import { type EwaldSetup, ewaldSetup } from '../../../engine/ewald/ewald';
+import { type EwaldSetup, cellListFindCoincident, ewaldSetup } from '../../../engine/ewald/ewald';
+import { boxMake } from '../../../engine/box';
 import { prepareWasmCreate } from '../../../engine/wasm/prepareWasm';
 import { snapshotClustered, snapshotUniform } from '../../helpers/snapshots';
 
@@ -72,5 +73,29 @@ describe('WebAssembly particle passes = JavaScript twins', () => {
     const mm = Float64Array.from(uniform.masses);
     mm[9] = NaN;
     expect(() => setupOn(true, uniform.positions, mm, uniform.box)).toThrow(/mass of particle 9 is not finite/);
+  });
+
+  it('the hash pass for coincident positions agrees with the cell search, pair or none, −0 as +0', () => {
+    const base = snapshotUniform(4000, 12, [1, 1, 1]);
+    const variants: [string, (p: Float64Array) => void, boolean][] = [
+      ['all distinct', () => undefined, false],
+      ['one pair far apart in the input', (p) => p.set(p.subarray(3 * 7, 3 * 8), 3 * 3990), true],
+      ['equal in two coordinates only', (p) => p.set(p.subarray(3 * 11, 3 * 11 + 2), 3 * 12), false],
+      ['a copy one box length away (the same once wrapped)', (p) => p.set([p[3 * 5] + 1, p[3 * 5 + 1], p[3 * 5 + 2] - 1], 3 * 6), true],
+      ['−0 and +0 in the same place', (p) => p.set([0, 0.5, 0.5, -0, 0.5, 0.5], 3 * 20), true],
+      ['1000 particles at one point', (p) => {
+        for (let i = 0; i < 1000; i++) p.set([0.25, 0.5, 0.75], 3 * (2000 + i));
+      }, true],
+    ];
+    for (const [name, change, expected] of variants) {
+      const p = Float64Array.from(base.positions);
+      change(p);
+      const prep = prepareWasmCreate()!;
+      const wrapped = new Float64Array(p.length);
+      prep.particles(p, base.masses, boxMake(1), [8, 8, 8], wrapped);
+      const cells = prep.cellList(boxMake(1), [10, 10, 10], 0.3, false);
+      expect(prep.anyCoincident(), name).toBe(expected);
+      expect(cellListFindCoincident(cells) !== null, name).toBe(expected);
+    }
   });
 });
