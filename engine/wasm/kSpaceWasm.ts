@@ -21,7 +21,6 @@ export interface KSpaceWasm {
 interface KSpaceBase {
   k: NonNullable<ReturnType<typeof kernelInstance>>;
   arena: WasmArena;
-  n: number;
   pPos: number;
   pMass: number;
 }
@@ -39,7 +38,7 @@ export function kSpaceWasmCreate(ks: KSpace, box: Box, positions: Float64Array, 
   const pMass = arena.alloc(8 * n);
   arena.f64(pPos, 3 * n).set(positions);
   arena.f64(pMass, n).set(masses);
-  return contextMake({ k, arena, n, pPos, pMass }, ks, box);
+  return contextMake({ k, arena, pPos, pMass }, ks, box);
 }
 
 function contextMake(base: KSpaceBase, ks: KSpace, box: Box): KSpaceWasm {

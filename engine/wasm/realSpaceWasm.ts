@@ -70,7 +70,6 @@ export function realSpaceWasmCreate(cells: CellList, box: Box, k: RealSpaceKerne
 function contextMake(base: RealSpaceBase, cells: CellList, box: Box, k: RealSpaceKernel): RealSpaceWasm {
   const { x, arena, n, soa, acc, pStart } = base;
   const nCells = cells.start.length - 1;
-  const pad = PAD;
   // Stencil columns: the half stencil's (own column first) for the all-particle loop, the full one's for targets.
   const columns = (first: number, end: number): [number, number] => {
     const c = cellColumns(cells.stencil, first, end);
@@ -102,9 +101,9 @@ function contextMake(base: RealSpaceBase, cells: CellList, box: Box, k: RealSpac
    */
   const unsortedIn = (accIn: Float64Array, phiIn: Float64Array): void => {
     if (pOrder === 0) {
-      pOrder = arena.alloc(4 * n + pad);
+      pOrder = arena.alloc(4 * n + PAD);
       arena.i32(pOrder, n).set(cells.order);
-      pDst = arena.alloc(32 * n + pad);
+      pDst = arena.alloc(32 * n + PAD);
     }
     arena.f64(pDst, 3 * n).set(accIn.subarray(0, 3 * n));
     arena.f64(pDst + 24 * n, n).set(phiIn.subarray(0, n));
